@@ -1,0 +1,128 @@
+/**
+ * Robust statistics on numeric arrays. NaN values are ignored everywhere.
+ * Functions that need ordering copy into a scratch buffer (pass one to avoid allocation in loops).
+ */
+
+export type NumericArray = ArrayLike<number> & { length: number };
+
+/** Gaussian-consistent scale of the median absolute deviation: 1 / Phi^-1(3/4) (common statistical constant). */
+export const MAD_TO_SIGMA = 1.482602218505602;
+
+/** k-th smallest (0-based) of buf[0..n), partially reordering buf in place (Hoare's quickselect). */
+export function selectInPlace(buf: Float64Array | Float32Array, n: number, k: number): number {
+  let lo = 0;
+  let hi = n - 1;
+  while (hi > lo) {
+    const pivot = buf[(lo + hi) >> 1]!;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (buf[i]! < pivot) i++;
+      while (buf[j]! > pivot) j--;
+      if (i <= j) {
+        const t = buf[i]!;
+        buf[i] = buf[j]!;
+        buf[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else break;
+  }
+  return buf[k]!;
+}
+
+/** Copy the finite values of `values` into `scratch` (grown if needed); returns [buffer, count]. */
+function finiteInto(values: NumericArray, scratch?: Float64Array): [Float64Array, number] {
+  const buf = scratch && scratch.length >= values.length ? scratch : new Float64Array(values.length);
+  let n = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (v === v) buf[n++] = v;
+  }
+  return [buf, n];
+}
+
+/** Median of the non-NaN values (mean of the two middle values for even counts); NaN when empty. */
+export function median(values: NumericArray, scratch?: Float64Array): number {
+  const [buf, n] = finiteInto(values, scratch);
+  return medianOfBuffer(buf, n);
+}
+
+/** Median of buf[0..n), reordering it. */
+export function medianOfBuffer(buf: Float64Array | Float32Array, n: number): number {
+  if (n === 0) return NaN;
+  const upper = selectInPlace(buf, n, n >> 1);
+  if (n % 2 === 1) return upper;
+  let lower = -Infinity;
+  for (let i = 0; i < n >> 1; i++) if (buf[i]! > lower) lower = buf[i]!;
+  return (lower + upper) / 2;
+}
+
+/** Median absolute deviation scaled to a Gaussian sigma (MAD x 1.4826). */
+export function madSigma(values: NumericArray, scratch?: Float64Array): number {
+  const [buf, n] = finiteInto(values, scratch);
+  if (n === 0) return NaN;
+  const m = medianOfBuffer(buf, n);
+  for (let i = 0; i < n; i++) buf[i] = Math.abs(buf[i]! - m);
+  return MAD_TO_SIGMA * medianOfBuffer(buf, n);
+}
+
+export interface MeanStd {
+  mean: number;
+  std: number;
+  count: number;
+}
+
+/** Mean and sample standard deviation (n - 1) of the non-NaN values. */
+export function meanStd(values: NumericArray): MeanStd {
+  let n = 0;
+  let mean = 0;
+  let m2 = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (v !== v) continue;
+    n++;
+    const d = v - mean; // Welford's update: stable for large offsets such as bias levels
+    mean += d / n;
+    m2 += d * (v - mean);
+  }
+  return { mean: n > 0 ? mean : NaN, std: n > 1 ? Math.sqrt(m2 / (n - 1)) : NaN, count: n };
+}
+
+export interface ClippedStats extends MeanStd {
+  median: number;
+  /** Number of values rejected by the clipping. */
+  rejected: number;
+}
+
+/**
+ * Iterative sigma clipping about the median, with the scale from the standard deviation of
+ * the kept values (common practice: 3 sigma, up to 5 iterations).
+ */
+export function sigmaClippedStats(values: NumericArray, nSigma = 3, maxIterations = 5, scratch?: Float64Array): ClippedStats {
+  const [buf, total] = finiteInto(values, scratch);
+  let n = total;
+  const work = new Float64Array(n);
+  let centre = NaN;
+  let mean = NaN;
+  let std = NaN;
+  for (let iter = 0; iter <= maxIterations; iter++) {
+    work.set(buf.subarray(0, n));
+    centre = medianOfBuffer(work, n);
+    const s = meanStd(buf.subarray(0, n));
+    mean = s.mean;
+    std = s.std;
+    if (!(std > 0) || iter === maxIterations) break;
+    let kept = 0;
+    for (let i = 0; i < n; i++) {
+      const v = buf[i]!;
+      if (Math.abs(v - centre) <= nSigma * std) buf[kept++] = v;
+    }
+    if (kept === n) break;
+    n = kept;
+  }
+  return { mean, std, count: n, median: centre, rejected: total - n };
+}

@@ -1,0 +1,4 @@
+export * from './frame.js';
+export * from './wavelength.js';
+export * from './lines.js';
+export * from './curve.js';
