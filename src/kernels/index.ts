@@ -1,0 +1,2 @@
+export * from './robust.js';
+export * from './legendre.js';
