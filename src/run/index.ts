@@ -1,0 +1,2 @@
+export * from './manifest/index.js';
+export * from './names.js';
