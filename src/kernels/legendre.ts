@@ -70,3 +70,34 @@ export function evalLegendre2D(model: Legendre2D, x: number, y: number): number 
   }
   return sum;
 }
+
+/**
+ * Evaluate a Legendre2D at every pixel centre (x = 0..width-1, y = 0..height-1) into `out`
+ * (row-major, length width * height). The x bases are computed once and each row collapses the
+ * y sum first, so the cost is (xOrder + 1) multiply-adds per pixel.
+ */
+export function evalLegendre2DGrid(model: Legendre2D, width: number, height: number, out: Float64Array): Float64Array {
+  if (out.length < width * height) throw new RangeError(`evalLegendre2DGrid: out has ${out.length} values, expected ${width * height}`);
+  const nx = model.xOrder + 1;
+  const xBases = new Float64Array(width * nx);
+  const px = new Float64Array(nx);
+  for (let x = 0; x < width; x++) {
+    legendreBasis(normalise(x, model.xMin, model.xMax), model.xOrder, px);
+    xBases.set(px, x * nx);
+  }
+  const py = new Float64Array(model.yOrder + 1);
+  const rowCoeffs = new Float64Array(nx);
+  for (let y = 0; y < height; y++) {
+    legendreBasis(normalise(y, model.yMin, model.yMax), model.yOrder, py);
+    rowCoeffs.fill(0);
+    for (let j = 0; j <= model.yOrder; j++) for (let i = 0; i < nx; i++) rowCoeffs[i] += model.coeffs[j * nx + i]! * py[j]!;
+    const base = y * width;
+    for (let x = 0; x < width; x++) {
+      let s = 0;
+      const b = x * nx;
+      for (let i = 0; i < nx; i++) s += rowCoeffs[i]! * xBases[b + i]!;
+      out[base + x] = s;
+    }
+  }
+  return out;
+}

@@ -1,0 +1,57 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { legendreValue, evalLegendre2D, evalLegendre2DGrid, evalLegendre1D } from '../../src/kernels/legendre.js';
+import { fitLegendre1D, fitLegendre2D } from '../../src/kernels/legendre-fit.js';
+
+// Reference: Debian python3-numpy, numpy.polynomial.legendre (legval, legfit, legvander2d + lstsq);
+// made by fixtures/arc/make_legendre.py.
+const ref = JSON.parse(readFileSync(new URL('../../fixtures/arc/legendre.json', import.meta.url), 'utf8'));
+
+describe('legendreValue', () => {
+  it('matches numpy.polynomial.legendre.legval for orders 0-9', () => {
+    for (const c of ref.legval) {
+      c.u.forEach((u: number, i: number) => expect(legendreValue(c.coeffs, u)).toBeCloseTo(c.value[i], 12));
+    }
+  });
+});
+
+describe('fitLegendre1D', () => {
+  it('matches numpy legfit coefficients and the (V^T W V)^-1 covariance for a weighted order-4 fit', () => {
+    const f = ref.fit1d;
+    const w = f.sigma.map((s: number) => 1 / (s * s));
+    const fit = fitLegendre1D(f.x, f.y, w, f.order, { min: f.min, max: f.max }, { clipSigma: Infinity });
+    fit.model.coeffs.forEach((c, k) => expect(Math.abs(c - f.coeffs[k])).toBeLessThan(1e-9 * Math.max(1, Math.abs(f.coeffs[k]))));
+    fit.covariance.forEach((c, k) => expect(Math.abs(c - f.covariance[k])).toBeLessThan(1e-6 * Math.abs(f.covariance[0])));
+    expect(fit.nUsed).toBe(f.x.length);
+  });
+
+  it('clips a gross outlier and then agrees with numpy on the remaining points', () => {
+    const f = ref.fit1d;
+    const y = f.y.slice();
+    y[7] += 5; // 100 sigma off
+    const w = f.sigma.map((s: number) => 1 / (s * s));
+    const fit = fitLegendre1D(f.x, y, w, f.order, { min: f.min, max: f.max }, { clipSigma: 3 });
+    expect(fit.used[7]).toBe(0);
+    // the remaining points are the clean fixture points: numpy's fit on all 40 must be close
+    expect(Math.abs(evalLegendre1D(fit.model, 1000) - evalLegendre1D({ kind: 'legendre1d', min: f.min, max: f.max, coeffs: f.coeffs }, 1000))).toBeLessThan(0.05);
+  });
+
+  it('throws RangeError when there are fewer points than coefficients', () => {
+    expect(() => fitLegendre1D([1, 2], [1, 2], null, 3, { min: 0, max: 3 })).toThrow(RangeError);
+  });
+});
+
+describe('fitLegendre2D', () => {
+  it('matches numpy legvander2d + lstsq coefficients (layout c[j (xOrder+1) + i])', () => {
+    const f = ref.fit2d;
+    const fit = fitLegendre2D(f.x, f.y, f.z, null, f.xOrder, f.yOrder, { xMin: f.xMin, xMax: f.xMax, yMin: f.yMin, yMax: f.yMax }, { clipSigma: Infinity });
+    fit.model.coeffs.forEach((c, k) => expect(c).toBeCloseTo(f.coeffs[k], 9));
+  });
+
+  it('evalLegendre2DGrid equals evalLegendre2D at every pixel centre', () => {
+    const f = ref.fit2d;
+    const model = { kind: 'legendre2d' as const, xOrder: f.xOrder, yOrder: f.yOrder, xMin: 0, xMax: 40, yMin: 0, yMax: 9, coeffs: f.coeffs };
+    const out = evalLegendre2DGrid(model, 41, 10, new Float64Array(410));
+    for (let y = 0; y < 10; y++) for (let x = 0; x <= 40; x++) expect(out[y * 41 + x]).toBeCloseTo(evalLegendre2D(model, x, y), 12);
+  });
+});
