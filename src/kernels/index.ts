@@ -6,3 +6,5 @@ export * from './cross-correlate.js';
 export * from './cholesky.js';
 export * from './levenberg-marquardt.js';
 export * from './gaussian-fit.js';
+export * from './bspline.js';
+export * from './banded-ldl.js';
