@@ -1,0 +1,2 @@
+export * from './settings.js';
+export { solveWavelengths } from './solve.js';
