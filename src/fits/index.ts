@@ -1,0 +1,11 @@
+export * from './header.js';
+export * from './types.js';
+export * from './write-types.js';
+export { parseFits } from './parse.js';
+export { readFitsFile } from './read-file.js';
+export { readImage, type ReadImageOptions } from './image.js';
+export { readTable } from './table.js';
+export { loadRawFrame, inheritedHeader } from './raw-frame.js';
+export { writeFits } from './write.js';
+export { formatCard, formatHeader } from './card-format.js';
+export { encodeChecksum, onesComplementSum } from './checksum.js';

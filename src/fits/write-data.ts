@@ -1,0 +1,95 @@
+/**
+ * Encoding of data units for the writer: big-endian image values (stored = (physical - BZERO) /
+ * BSCALE, rounded and clipped for integers, NaN as BLANK) and binary-table rows (FITS Standard 4.0,
+ * sections 5 and 7.3).
+ */
+import { InputError } from '../errors.js';
+import type { ImageHduSpec, TableHduSpec } from './write-types.js';
+
+const INT_RANGE: Record<number, [number, number]> = { 8: [0, 255], 16: [-32768, 32767], 32: [-2147483648, 2147483647] };
+
+/** Stored integer value that marks NaN pixels, when the data have any (the type's minimum). */
+export function blankFor(spec: ImageHduSpec): number | undefined {
+  if (spec.bitpix < 0) return undefined;
+  const d = spec.data;
+  for (let i = 0; i < d.length; i++) if (d[i] !== d[i]) return INT_RANGE[spec.bitpix]![0];
+  return undefined;
+}
+
+/** Write the image's stored values at out[offset..). */
+export function encodeImage(spec: ImageHduSpec, out: Uint8Array, offset: number, blank: number | undefined): void {
+  const n = spec.width * spec.height;
+  const d = spec.data;
+  const view = new DataView(out.buffer, out.byteOffset + offset, n * (Math.abs(spec.bitpix) / 8));
+  if (spec.bitpix === -32) {
+    for (let i = 0; i < n; i++) view.setFloat32(4 * i, d[i]!);
+    return;
+  }
+  if (spec.bitpix === -64) {
+    for (let i = 0; i < n; i++) view.setFloat64(8 * i, d[i]!);
+    return;
+  }
+  const zero = spec.bzero ?? 0;
+  const scale = spec.bscale ?? 1;
+  const [lo, hi] = INT_RANGE[spec.bitpix]!;
+  const b = blank ?? 0;
+  for (let i = 0; i < n; i++) {
+    const v = d[i]!;
+    let s = v !== v ? b : Math.round((v - zero) / scale);
+    if (s < lo) s = lo;
+    else if (s > hi) s = hi;
+    if (spec.bitpix === 16) view.setInt16(2 * i, s);
+    else if (spec.bitpix === 32) view.setInt32(4 * i, s);
+    else view.setUint8(i, s);
+  }
+}
+
+export interface TableColumnLayout {
+  /** Bytes per row of this column. */
+  width: number;
+  /** TFORMn. */
+  form: string;
+}
+
+/** Widths and TFORMn of the spec's columns; checks that every column has one value per row. */
+export function tableLayout(spec: TableHduSpec): { rows: number; columns: TableColumnLayout[]; rowBytes: number } {
+  const rows = spec.columns[0]?.values.length ?? 0;
+  const columns = spec.columns.map((c) => {
+    if (c.values.length !== rows) {
+      throw new InputError('fits.write-invalid', `column ${c.name} has ${c.values.length} values, the first column ${rows}`, { key: c.name }, { expected: 'the same number of values in every column' });
+    }
+    if (c.format !== 'A') return { width: { L: 1, J: 4, K: 8, E: 4, D: 8 }[c.format], form: c.format };
+    let w = c.width ?? 1;
+    if (c.width === undefined) for (const s of c.values as string[]) w = Math.max(w, String(s).length);
+    return { width: w, form: `${w}A` };
+  });
+  return { rows, columns, rowBytes: columns.reduce((a, c) => a + c.width, 0) };
+}
+
+/** Write the table rows at out[offset..). */
+export function encodeTable(spec: TableHduSpec, layout: ReturnType<typeof tableLayout>, out: Uint8Array, offset: number): void {
+  const view = new DataView(out.buffer, out.byteOffset + offset, layout.rows * layout.rowBytes);
+  let colOffset = 0;
+  spec.columns.forEach((c, k) => {
+    const width = layout.columns[k]!.width;
+    const v = c.values;
+    for (let r = 0; r < layout.rows; r++) {
+      const at = r * layout.rowBytes + colOffset;
+      switch (c.format) {
+        case 'L': view.setUint8(at, v[r] ? 0x54 : 0x46); break;
+        case 'J': view.setInt32(at, Math.round(Number(v[r]))); break;
+        case 'K': view.setBigInt64(at, typeof v[r] === 'bigint' ? (v[r] as bigint) : BigInt(Math.round(Number(v[r])))); break;
+        case 'E': view.setFloat32(at, Number(v[r])); break;
+        case 'D': view.setFloat64(at, Number(v[r])); break;
+        default: {
+          const s = String(v[r]);
+          for (let j = 0; j < width; j++) {
+            const ch = j < s.length ? s.charCodeAt(j) : 0x20;
+            view.setUint8(at + j, ch >= 0x20 && ch <= 0x7e ? ch : 0x3f);
+          }
+        }
+      }
+    }
+    colOffset += width;
+  });
+}

@@ -1,0 +1,118 @@
+/**
+ * Writing FITS files (FITS Standard 4.0): an empty primary HDU or an image in it, then IMAGE and
+ * BINTABLE extensions, each with DATASUM and CHECKSUM (checksum convention). The output is sized
+ * first and filled in place: one allocation of the whole file.
+ */
+import { InputError } from '../errors.js';
+import { BLOCK_BYTES } from './card-parse.js';
+import { formatHeader } from './card-format.js';
+import { addSums, complement, encodeChecksum, onesComplementSum } from './checksum.js';
+import type { Card, Header } from './header.js';
+import { blankFor, encodeImage, encodeTable, tableLayout } from './write-data.js';
+import type { ImageHduSpec, TableHduSpec, WriteHdu, WriteOptions } from './write-types.js';
+
+/** Keywords the writer sets itself; copies in user headers are dropped. */
+const RESERVED =
+  /^(SIMPLE|XTENSION|BITPIX|NAXIS\d*|EXTEND|PCOUNT|GCOUNT|GROUPS|END|CHECKSUM|DATASUM|BZERO|BSCALE|BLANK|TFIELDS|THEAP|T(TYPE|FORM|UNIT|SCAL|ZERO|NULL|DIM|BCOL|DISP)\d+|Z(IMAGE|SIMPLE|TENSION|BITPIX|NAXIS\d*|TILE\d+|CMPTYPE|NAME\d+|VAL\d+|QUANTIZ|DITHER0|PCOUNT|GCOUNT|HECKSUM|DATASUM|BLANK|SCALE|ZERO|EXTEND|BLOCKED))$/;
+
+interface PlannedHdu {
+  cards: Card[];
+  dataBytes: number;
+  encode(out: Uint8Array, offset: number): void;
+}
+
+function userCards(headers: (Header | undefined)[], skipExtname: boolean): Card[] {
+  const out: Card[] = [];
+  for (const h of headers) for (const c of h?.cards ?? []) if (!RESERVED.test(c.key) && !(skipExtname && c.key === 'EXTNAME')) out.push({ ...c });
+  return out;
+}
+
+function planImage(spec: ImageHduSpec, primary: boolean, extensions: boolean, extra: (Header | undefined)[]): PlannedHdu {
+  if (!Number.isInteger(spec.width) || !Number.isInteger(spec.height) || spec.width < 0 || spec.height < 0 || spec.width * spec.height !== spec.data.length) {
+    throw new InputError('fits.write-invalid', 'image data do not match its size', { key: spec.name ?? 'image' }, { expected: `${spec.width} x ${spec.height} values`, actual: `${spec.data.length}` });
+  }
+  const cards: Card[] = primary ? [{ key: 'SIMPLE', value: true }] : [{ key: 'XTENSION', value: 'IMAGE' }];
+  cards.push({ key: 'BITPIX', value: spec.bitpix }, { key: 'NAXIS', value: 2 }, { key: 'NAXIS1', value: spec.width }, { key: 'NAXIS2', value: spec.height });
+  if (primary && extensions) cards.push({ key: 'EXTEND', value: true });
+  if (!primary) cards.push({ key: 'PCOUNT', value: 0 }, { key: 'GCOUNT', value: 1 });
+  if (spec.name !== undefined) cards.push({ key: 'EXTNAME', value: spec.name });
+  const integer = spec.bitpix > 0;
+  if (integer && spec.bzero !== undefined) cards.push({ key: 'BZERO', value: spec.bzero });
+  if (integer && spec.bscale !== undefined) cards.push({ key: 'BSCALE', value: spec.bscale });
+  const blank = blankFor(spec);
+  if (blank !== undefined) cards.push({ key: 'BLANK', value: blank, comment: 'stored value of NaN pixels' });
+  cards.push(...userCards([...extra, spec.header], spec.name !== undefined));
+  return { cards, dataBytes: spec.width * spec.height * (Math.abs(spec.bitpix) / 8), encode: (out, offset) => encodeImage(spec, out, offset, blank) };
+}
+
+function planTable(spec: TableHduSpec): PlannedHdu {
+  const layout = tableLayout(spec);
+  const cards: Card[] = [
+    { key: 'XTENSION', value: 'BINTABLE' },
+    { key: 'BITPIX', value: 8 },
+    { key: 'NAXIS', value: 2 },
+    { key: 'NAXIS1', value: layout.rowBytes },
+    { key: 'NAXIS2', value: layout.rows },
+    { key: 'PCOUNT', value: 0 },
+    { key: 'GCOUNT', value: 1 },
+    { key: 'TFIELDS', value: spec.columns.length },
+  ];
+  spec.columns.forEach((c, i) => {
+    cards.push({ key: `TTYPE${i + 1}`, value: c.name }, { key: `TFORM${i + 1}`, value: layout.columns[i]!.form });
+    if (c.unit !== undefined && c.unit !== '') cards.push({ key: `TUNIT${i + 1}`, value: c.unit });
+  });
+  cards.push({ key: 'EXTNAME', value: spec.name }, ...userCards([spec.header], true));
+  return { cards, dataBytes: layout.rows * layout.rowBytes, encode: (out, offset) => encodeTable(spec, layout, out, offset) };
+}
+
+function plan(hdus: WriteHdu[], options: WriteOptions): PlannedHdu[] {
+  const planned: PlannedHdu[] = [];
+  let rest = hdus;
+  if (options.imageInPrimary) {
+    const first = hdus[0];
+    if (!first || first.kind !== 'image') {
+      throw new InputError('fits.write-invalid', 'imageInPrimary needs an image as the first HDU', {}, { expected: 'an image spec first', actual: first?.kind ?? 'no HDU' });
+    }
+    planned.push(planImage(first, true, hdus.length > 1, [options.primaryHeader]));
+    rest = hdus.slice(1);
+  } else {
+    const cards: Card[] = [{ key: 'SIMPLE', value: true }, { key: 'BITPIX', value: 8 }, { key: 'NAXIS', value: 0 }];
+    if (hdus.length > 0) cards.push({ key: 'EXTEND', value: true });
+    cards.push(...userCards([options.primaryHeader], false));
+    planned.push({ cards, dataBytes: 0, encode: () => undefined });
+  }
+  for (const spec of rest) planned.push(spec.kind === 'image' ? planImage(spec, false, false, []) : planTable(spec));
+  return planned;
+}
+
+function putAscii(out: Uint8Array, offset: number, text: string): void {
+  for (let i = 0; i < text.length; i++) out[offset + i] = text.charCodeAt(i);
+}
+
+/** Serialise HDUs to the bytes of a FITS file. */
+export function writeFits(hdus: WriteHdu[], options: WriteOptions = {}): Uint8Array {
+  const checksum = options.checksum ?? true;
+  const planned = plan(hdus, options);
+  if (checksum) for (const p of planned) p.cards.push({ key: 'CHECKSUM', value: '0000000000000000' }, { key: 'DATASUM', value: '0' });
+  const headerBytes = planned.map((p) => formatHeader(p.cards).length);
+  const paddedData = planned.map((p) => Math.ceil(p.dataBytes / BLOCK_BYTES) * BLOCK_BYTES);
+  const out = new Uint8Array(headerBytes.reduce((a, b) => a + b, 0) + paddedData.reduce((a, b) => a + b, 0));
+  let offset = 0;
+  planned.forEach((p, i) => {
+    const dataOffset = offset + headerBytes[i]!;
+    p.encode(out, dataOffset);
+    const end = dataOffset + paddedData[i]!;
+    if (checksum) {
+      const dataSum = onesComplementSum(out, dataOffset, end);
+      p.cards[p.cards.length - 1]!.value = String(dataSum);
+      const text = formatHeader(p.cards);
+      putAscii(out, offset, text);
+      const total = addSums(onesComplementSum(out, offset, dataOffset), dataSum);
+      putAscii(out, offset + text.indexOf("CHECKSUM= '") + 11, encodeChecksum(complement(total)));
+    } else {
+      putAscii(out, offset, formatHeader(p.cards));
+    }
+    offset = end;
+  });
+  return out;
+}
