@@ -1,0 +1,60 @@
+/**
+ * Velocity corrections from the observatory to the solar-system barycentre or the Sun's centre.
+ * Earth's state from astronomy-engine (VSOP87 + the outer planets' pull on the Sun, J2000 mean
+ * equator); the observer's motion from its Earth-rotation model. Sign convention as astropy's
+ * `SkyCoord.radial_velocity_correction`: cz_true = applyFrameCorrection(cz_obs, correction).
+ */
+import { BaryState, Body, GeoMoonState, HelioState, KM_PER_AU, Observer, ObserverState } from 'astronomy-engine';
+import { SPEED_OF_LIGHT_KMS as C, GM_SUN_M3_S2 } from './constants.js';
+import type { Site } from './coordinates.js';
+import { precessToJ2000, unitVector } from './precession.js';
+
+/** Where the telescope points. */
+export interface Pointing {
+  raDeg: number;
+  decDeg: number;
+  /** Mean equinox of the coordinates, Julian year; default 2000 (ICRS taken equal to J2000). */
+  equinox?: number;
+}
+
+const KMS_PER_AU_DAY = KM_PER_AU / 86400;
+/** Earth's and the Moon's GM, m^3 s^-2 (IERS Conventions 2010 table 1.1; Moon from GM_E / 81.30057) [memory]. */
+const GM_EARTH_M3_S2 = 3.986004418e14;
+const GM_MOON_M3_S2 = GM_EARTH_M3_S2 / 81.30057;
+const C_M_S = C * 1000;
+
+type Vec = [number, number, number];
+const dot = (a: Vec, b: Vec): number => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+const dist = (a: Vec, b: Vec): number => Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2]);
+
+/**
+ * Correction (km/s) to add to a topocentric radial velocity, at the instant `time` (UTC), for a
+ * target at `pointing` seen from `site`.
+ * - barycentric: Wright & Eastman (2014, PASP 126, 838) eq. 28 without the Shapiro delay and the
+ *   target's own motion: z_B = gamma (1 + beta.n) / (1 + Phi/c^2) - 1, with the observer's
+ *   barycentric velocity beta c and the Newtonian potential Phi of the Sun, Earth and Moon at the
+ *   observer (these terms are ~0.003 km/s).
+ * - heliocentric: the classical projection of the observer's heliocentric velocity, beta.n c.
+ */
+export function radialVelocityCorrection(time: Date, pointing: Pointing, site: Site, frame: 'barycentric' | 'heliocentric' = 'barycentric'): number {
+  if (!Number.isFinite(time.getTime())) throw new RangeError('radialVelocityCorrection: invalid time');
+  const n = precessToJ2000(unitVector(pointing.raDeg, pointing.decDeg), pointing.equinox ?? 2000);
+  const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.heightM);
+  const topo = ObserverState(time, observer, false);
+  const earth = frame === 'barycentric' ? BaryState(Body.Earth, time) : HelioState(Body.Earth, time);
+  const v: Vec = [(earth.vx + topo.vx) * KMS_PER_AU_DAY, (earth.vy + topo.vy) * KMS_PER_AU_DAY, (earth.vz + topo.vz) * KMS_PER_AU_DAY];
+  const beta: Vec = [v[0] / C, v[1] / C, v[2] / C];
+  if (frame === 'heliocentric') return dot(beta, n) * C;
+
+  const auM = KM_PER_AU * 1000;
+  const obs: Vec = [(earth.x + topo.x) * auM, (earth.y + topo.y) * auM, (earth.z + topo.z) * auM];
+  const sunBary = BaryState(Body.Sun, time);
+  const sun: Vec = [sunBary.x * auM, sunBary.y * auM, sunBary.z * auM];
+  const earthPos: Vec = [earth.x * auM, earth.y * auM, earth.z * auM];
+  const moonGeo = GeoMoonState(time);
+  const moon: Vec = [earthPos[0] + moonGeo.x * auM, earthPos[1] + moonGeo.y * auM, earthPos[2] + moonGeo.z * auM];
+  const potential = GM_SUN_M3_S2 / dist(obs, sun) + GM_EARTH_M3_S2 / dist(obs, earthPos) + GM_MOON_M3_S2 / dist(obs, moon);
+  const gamma = 1 / Math.sqrt(1 - dot(beta, beta));
+  const zB = (gamma * (1 + dot(beta, n))) / (1 + potential / (C_M_S * C_M_S)) - 1;
+  return zB * C;
+}
