@@ -8,3 +8,6 @@ export * from './levenberg-marquardt.js';
 export * from './gaussian-fit.js';
 export * from './bspline.js';
 export * from './banded-ldl.js';
+export * from './combine.js';
+export * from './median-filter.js';
+export * from './laplacian.js';

@@ -88,6 +88,8 @@ export interface CalibratedFrame {
   exptimeS: number;
   gain: number;
   readNoiseE: number;
+  /** Per pixel, how many exposures the cosmic-ray rejection left out (frames combined from several exposures). */
+  rejected?: Uint8Array;
 }
 
 /** A stage's result: its product and what it noticed. */

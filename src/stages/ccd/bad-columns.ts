@@ -1,0 +1,66 @@
+/**
+ * Hot and bad detector columns (raw orientation): a column whose median stands out from the
+ * medians of its neighbouring columns, in the master bias (hot: extra charge) or in the combined
+ * flat (low or high response). Threshold: badColumnSigma robust sigmas of that difference over
+ * all columns, and at least one read-noise sigma (bias) or 5% (flat) (common practice).
+ */
+import { madSigma, median, medianOfBuffer } from '../../kernels/robust.js';
+
+/** Columns compared with a running median over this many columns each side. */
+const NEIGHBOURS = 7;
+/** Smallest flat departure that counts, fraction (common practice). */
+const FLAT_FLOOR = 0.05;
+
+export interface BadColumnSearch {
+  /** 0-based x in the trimmed raw frame. */
+  columns: number[];
+  /** Why each column was flagged, in the same order. */
+  reasons: ('bias' | 'flat')[];
+}
+
+export function findBadColumns(
+  bias: Float32Array | null,
+  flat: Float32Array | null,
+  width: number,
+  height: number,
+  readNoiseAdu: number,
+  sigma: number,
+): BadColumnSearch {
+  const flagged = new Map<number, 'bias' | 'flat'>();
+  if (bias) {
+    const dev = departures(columnMedians(bias, width, height), false);
+    const limit = Math.max(sigma * madSigma(dev), readNoiseAdu);
+    for (let x = 0; x < width; x++) if (Math.abs(dev[x]!) > limit) flagged.set(x, 'bias');
+  }
+  if (flat) {
+    const dev = departures(columnMedians(flat, width, height), true);
+    const limit = Math.max(sigma * madSigma(dev), FLAT_FLOOR);
+    for (let x = 0; x < width; x++) if (Math.abs(dev[x]!) > limit && !flagged.has(x)) flagged.set(x, 'flat');
+  }
+  const columns = [...flagged.keys()].sort((a, b) => a - b);
+  return { columns, reasons: columns.map((x) => flagged.get(x)!) };
+}
+
+function columnMedians(image: Float32Array, width: number, height: number): Float64Array {
+  const out = new Float64Array(width);
+  const column = new Float64Array(height);
+  for (let x = 0; x < width; x++) {
+    for (let y = 0; y < height; y++) column[y] = image[y * width + x]!;
+    out[x] = median(column, column);
+  }
+  return out;
+}
+
+/** Each value minus (or over, when `ratio`) the median of its neighbours within NEIGHBOURS, itself left out. */
+function departures(values: Float64Array, ratio: boolean): Float64Array {
+  const n = values.length;
+  const out = new Float64Array(n);
+  const window = new Float64Array(2 * NEIGHBOURS);
+  for (let x = 0; x < n; x++) {
+    let k = 0;
+    for (let j = Math.max(0, x - NEIGHBOURS); j <= Math.min(n - 1, x + NEIGHBOURS); j++) if (j !== x) window[k++] = values[j]!;
+    const ref = k > 0 ? medianOfBuffer(window, k) : values[x]!;
+    out[x] = ratio ? (ref !== 0 ? values[x]! / ref - 1 : 0) : values[x]! - ref;
+  }
+  return out;
+}

@@ -1,0 +1,118 @@
+/**
+ * buildCalibration: bias, flat and arc frames -> master bias, normalised flat, masks, the
+ * orientation and the calibrated arc. Pure: frames in, products and diagnostics out.
+ */
+import { DiagnosticLog } from '../../diagnostics.js';
+import { InputError } from '../../errors.js';
+import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from '../../products/frame.js';
+import { toInternal } from '../../products/orientation.js';
+import { combineBias } from './bias.js';
+import type { CcdCalibration } from './calibration.js';
+import { combineExposures } from './combine-exposures.js';
+import { checkSameDetector, resolveDetector, type ReferenceFrame } from './detector.js';
+import { CLEAR_AXIS_RATIO, dispersionAxisFromArc } from './dispersion-axis.js';
+import { findBadColumns } from './bad-columns.js';
+import { calibrateExposure, type ExposureCalibration } from './exposure.js';
+import { exposureInfo } from './exposure-info.js';
+import { combineFlats, normaliseFlat } from './flat.js';
+import { trimFrame, type TrimmedFrame } from './overscan.js';
+import type { CcdSettings } from './settings.js';
+
+export interface CalibrationFrames {
+  bias: RawFrame[];
+  flat: RawFrame[];
+  arc: RawFrame[];
+}
+
+export function buildCalibration(frames: CalibrationFrames, settings: CcdSettings): StageResult<CcdCalibration> {
+  const log = new DiagnosticLog('ccd');
+  if (frames.arc.length === 0) throw new InputError('ccd.no-arc', 'no arc frames: the orientation and the wavelength solution need at least one', { key: 'arc' }, { expected: 'one or more arc frames' });
+  const all = [...frames.bias, ...frames.flat, ...frames.arc];
+  const first = all[0]!;
+  const reference: ReferenceFrame = { path: first.path, width: first.width, height: first.height, detector: resolveDetector(first, settings) };
+  const det = reference.detector;
+  for (const f of all.slice(1)) {
+    const d = resolveDetector(f, settings);
+    checkSameDetector(f, d, reference);
+    if (settings.gain === undefined && d.gain !== det.gain) {
+      log.warn('gain-differs', `GAIN ${d.gain} differs from ${det.gain} of ${first.path}; using ${det.gain}`, { place: { file: f.path } });
+    }
+  }
+  const trim = (f: RawFrame): TrimmedFrame => trimFrame(f, det, settings.overscanOrder);
+  const biasTrim = frames.bias.map(trim);
+  const flatTrim = frames.flat.map(trim);
+  const arcTrim = frames.arc.map(trim);
+  const tw = arcTrim[0]!.width;
+  const th = arcTrim[0]!.height;
+  const overscanModel = (biasTrim[0] ?? flatTrim[0] ?? arcTrim[0]!).overscanModel;
+  if (!det.overscan) log.info('no-overscan', 'no overscan section (BIASSEC): the bias level comes from the bias frames alone');
+
+  const bias = combineBias(biasTrim, det.gain, det.readNoiseE, tw, th, settings);
+  if (bias.count === 0) log.warn('no-bias', 'no bias frames: only the overscan is subtracted');
+  const minusBias = (t: TrimmedFrame): Float32Array => {
+    const out = new Float32Array(t.data.length);
+    for (let i = 0; i < out.length; i++) out[i] = t.data[i]! - bias.data[i]!;
+    return out;
+  };
+
+  const evidence = dispersionAxisFromArc(minusBias(arcTrim[0]!), tw, th);
+  const clear = evidence.ratio >= CLEAR_AXIS_RATIO || evidence.ratio <= 1 / CLEAR_AXIS_RATIO;
+  let axis = settings.dispersionAxis === 'auto' ? evidence.axis : settings.dispersionAxis;
+  if (settings.dispersionAxis === 'auto' && !clear) {
+    log.warn('axis-unclear', `the arc does not show clearly which axis the dispersion runs along; taking ${axis}`, { place: { file: frames.arc[0]!.path }, expected: `ratio >= ${CLEAR_AXIS_RATIO} or <= ${(1 / CLEAR_AXIS_RATIO).toFixed(3)}`, actual: evidence.ratio });
+  } else if (settings.dispersionAxis !== 'auto' && clear && evidence.axis !== settings.dispersionAxis) {
+    log.warn('axis-disagrees', `dispersion_axis is ${settings.dispersionAxis} but the arc lines look dispersed along ${evidence.axis}`, { place: { file: frames.arc[0]!.path }, actual: evidence.ratio });
+  }
+  axis = axis === 'y' ? 'y' : 'x';
+  const orientation = { transpose: axis === 'y', flipX: false };
+
+  const flatsMinusBias = flatTrim.map(minusBias);
+  const combinedFlat = flatsMinusBias.length > 0 ? combineFlats(flatsMinusBias, det.gain, det.readNoiseE, settings) : null;
+  const bad = findBadColumns(bias.count > 0 ? bias.data : null, combinedFlat?.data ?? null, tw, th, det.readNoiseE / det.gain, settings.badColumnSigma);
+  const badRaw = new Uint16Array(tw * th);
+  for (const x of bad.columns) for (let y = 0; y < th; y++) badRaw[y * tw + x] = MASK_BITS.badColumn;
+  if (bad.columns.length > 0) log.info('bad-columns', `${bad.columns.length} bad detector column(s): ${bad.columns.map((x) => x + 1).join(', ')} (1-based, trimmed)`, { actual: bad.columns.length });
+  const badInternal = toInternal(badRaw, tw, th, orientation);
+  const width = badInternal.width;
+  const height = badInternal.height;
+  const masterBias = toInternal(bias.data, tw, th, orientation).data;
+
+  let masterFlat: Float32Array;
+  let flatVariance: Float32Array;
+  let flatMask: Uint16Array;
+  if (combinedFlat) {
+    const normalised = normaliseFlat(toInternal(combinedFlat.data, tw, th, orientation).data, width, height, badInternal.data, {
+      gain: det.gain, readNoiseE: det.readNoiseE, biasVarianceAdu: bias.varianceAdu, count: combinedFlat.count,
+    }, settings);
+    ({ flat: masterFlat, variance: flatVariance, mask: flatMask } = normalised);
+    if (normalised.unfitRows.length > 0) log.warn('flat-dark-rows', `${normalised.unfitRows.length} row(s) without enough flat light are masked`, { actual: normalised.unfitRows.length });
+    let zero = 0;
+    for (let i = 0; i < flatMask.length; i++) if (flatMask[i]! & MASK_BITS.zeroFlat) zero++;
+    if (zero > 0) log.info('flat-zero', `${zero} pixel(s) with a flat below ${settings.flatMinimum} masked, not divided`, { actual: zero });
+  } else {
+    log.warn('no-flat', 'no flat frames: the pixel response is not corrected');
+    masterFlat = new Float32Array(width * height).fill(1);
+    flatVariance = new Float32Array(width * height);
+    flatMask = badInternal.data;
+  }
+
+  const exposureCal: ExposureCalibration = {
+    orientation, width, height, gain: det.gain, readNoiseE: det.readNoiseE,
+    masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask,
+  };
+  const arcInfos = frames.arc.map((f) => exposureInfo(f, false));
+  const arcExposures = arcTrim.map((t) => calibrateExposure(t, exposureCal));
+  const arcCombined = combineExposures(arcExposures, arcInfos.map((e) => e.exptimeS), exposureCal, settings);
+  if (arcCombined.hits > 0) log.info('arc-cosmic-rays', `${arcCombined.hits} cosmic-ray pixel(s) rejected in the arc combination`, { actual: arcCombined.hits });
+  const arc: CalibratedFrame = {
+    width, height, sci: arcCombined.sci, var: arcCombined.var, mask: arcCombined.mask, orientation,
+    section: det.data, header: frames.arc[0]!.header, exposures: arcInfos, exptimeS: arcCombined.exptimeS,
+    gain: det.gain, readNoiseE: det.readNoiseE, rejected: arcCombined.rejected,
+  };
+  const product: CcdCalibration = {
+    orientation, section: det.data, width, height, gain: det.gain, readNoiseE: det.readNoiseE,
+    masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask, arc,
+    badColumns: bad.columns, reference, overscanModel, axisRatio: evidence.ratio,
+  };
+  return { product, diagnostics: log.items };
+}

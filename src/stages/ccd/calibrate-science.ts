@@ -1,0 +1,64 @@
+/**
+ * calibrateScience: the science exposures of one target -> one calibrated frame in electrons
+ * (scaled to the total exposure time), with variance and mask, internal orientation.
+ * Several exposures: combined with cosmic-ray rejection (combine-exposures.ts). One exposure:
+ * van Dokkum's Laplacian cleaning (laplacian-clean.ts) unless cleanSingleExposure is off.
+ */
+import { DiagnosticLog } from '../../diagnostics.js';
+import { InputError } from '../../errors.js';
+import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from '../../products/frame.js';
+import type { CcdCalibration } from './calibration.js';
+import { combineExposures, MAX_EXPOSURES } from './combine-exposures.js';
+import { checkSameDetector, resolveDetector } from './detector.js';
+import { calibrateExposure, type ExposureCalibration } from './exposure.js';
+import { exposureInfo } from './exposure-info.js';
+import { laplacianClean } from './laplacian-clean.js';
+import { trimFrame } from './overscan.js';
+import type { CcdSettings } from './settings.js';
+
+/** Mask bits that keep a pixel out of the Laplacian detection and of the replacement medians. */
+const UNUSABLE = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
+
+export function calibrateScience(science: RawFrame[], cal: CcdCalibration, settings: CcdSettings): StageResult<CalibratedFrame> {
+  const log = new DiagnosticLog('ccd');
+  if (science.length === 0) throw new InputError('ccd.no-science', 'no science frames', { key: 'frames' }, { expected: 'one or more science exposures' });
+  if (science.length > MAX_EXPOSURES) throw new InputError('ccd.too-many-exposures', `${science.length} exposures in one target`, { key: 'frames' }, { expected: `at most ${MAX_EXPOSURES}` });
+  // The calibration's gain and read noise hold for the science too (same detector and readout).
+  const detSettings = { ...settings, gain: cal.gain, readNoise: cal.readNoiseE };
+  const infos = science.map((f) => {
+    checkSameDetector(f, resolveDetector(f, detSettings), cal.reference);
+    return exposureInfo(f, true);
+  });
+  const det = cal.reference.detector;
+  const exposureCal: ExposureCalibration = cal;
+  const exposures = science.map((f) => calibrateExposure(trimFrame(f, det, settings.overscanOrder), exposureCal));
+  const combined = combineExposures(exposures, infos.map((e) => e.exptimeS), exposureCal, settings);
+  const frame: CalibratedFrame = {
+    width: cal.width, height: cal.height, sci: combined.sci, var: combined.var, mask: combined.mask,
+    orientation: cal.orientation, section: cal.section, header: science[0]!.header, exposures: infos,
+    exptimeS: combined.exptimeS, gain: cal.gain, readNoiseE: cal.readNoiseE,
+  };
+  if (science.length > 1) {
+    frame.rejected = combined.rejected;
+    log.info('cosmic-rays', `${combined.hits} cosmic-ray pixel(s) rejected in ${science.length} exposures (${combined.grown} with their neighbours)`, { actual: combined.hits });
+  } else if (settings.cleanSingleExposure) {
+    const skip = new Uint16Array(frame.mask.length);
+    for (let i = 0; i < skip.length; i++) skip[i] = frame.mask[i]! & UNUSABLE;
+    const clean = laplacianClean(frame.sci, frame.var, skip, cal.width, cal.height, settings.laplacian);
+    let count = 0;
+    for (let i = 0; i < clean.hits.length; i++) {
+      if (!clean.hits[i]) continue;
+      count++;
+      frame.mask[i] = frame.mask[i]! | MASK_BITS.cosmicRay;
+      frame.var[i] = clean.noise[i]! * clean.noise[i]!;
+    }
+    frame.sci = clean.cleaned;
+    log.info('cosmic-rays', `${count} cosmic-ray pixel(s) found by the Laplacian method in ${clean.perRound.length} round(s) (${clean.perRound.join(', ')})`, { actual: count });
+  } else {
+    log.warn('cosmic-rays-kept', 'a single exposure and cleanSingleExposure off: cosmic rays are not removed');
+  }
+  let saturated = 0;
+  for (let i = 0; i < frame.mask.length; i++) if (frame.mask[i]! & MASK_BITS.saturated) saturated++;
+  if (saturated > 0) log.warn('saturated', `${saturated} saturated pixel(s)`, { actual: saturated });
+  return { product: frame, diagnostics: log.items };
+}

@@ -1,0 +1,61 @@
+/**
+ * One exposure from trimmed ADU to electrons in the internal orientation: master bias subtracted,
+ * divided by the normalised flat, times the gain; variance from Poisson and read noise carried
+ * through the bias subtraction and flat division; mask from saturation and the calibration.
+ */
+import { toInternal } from '../../products/orientation.js';
+import type { Orientation } from '../../products/frame.js';
+import type { TrimmedFrame } from './overscan.js';
+
+/** The parts of the calibration an exposure needs (all internal orientation). */
+export interface ExposureCalibration {
+  orientation: Orientation;
+  width: number;
+  height: number;
+  gain: number;
+  readNoiseE: number;
+  /** ADU. */
+  masterBias: Float32Array;
+  /** Variance of a master-bias pixel, ADU^2. */
+  biasVarianceAdu: number;
+  /** Normalised flat; 1 where flatMask says it was not divided. */
+  masterFlat: Float32Array;
+  /** Variance of the normalised flat (dimensionless^2). */
+  flatVariance: Float32Array;
+  flatMask: Uint16Array;
+}
+
+export interface CalibratedExposure {
+  /** Electrons (flat-fielded) in this exposure. */
+  sci: Float32Array;
+  /** Electrons^2. */
+  var: Float32Array;
+  mask: Uint16Array;
+}
+
+/**
+ * var = (g max(raw - bias, 0) + RN^2 + g^2 var(bias)) / F^2 + sci^2 var(F) / F^2, in e^2: the
+ * Poisson term uses the detected electrons before the flat (the flat does not change the counts).
+ */
+export function calibrateExposure(trimmed: TrimmedFrame, cal: ExposureCalibration): CalibratedExposure {
+  const o = toInternal(trimmed.data, trimmed.width, trimmed.height, cal.orientation);
+  const m = toInternal(trimmed.mask, trimmed.width, trimmed.height, cal.orientation);
+  if (o.width !== cal.width || o.height !== cal.height) {
+    throw new RangeError(`calibrateExposure: frame ${o.width} x ${o.height} against calibration ${cal.width} x ${cal.height}`);
+  }
+  const n = cal.width * cal.height;
+  const sci = o.data; // reused in place: the oriented copy is ours
+  const variance = new Float32Array(n);
+  const mask = m.data;
+  const g = cal.gain;
+  const constantE2 = cal.readNoiseE * cal.readNoiseE + g * g * cal.biasVarianceAdu;
+  for (let i = 0; i < n; i++) {
+    const detected = (sci[i]! - cal.masterBias[i]!) * g;
+    const f = cal.masterFlat[i]!;
+    const e = detected / f;
+    sci[i] = e;
+    variance[i] = ((detected > 0 ? detected : 0) + constantE2) / (f * f) + (e * e * cal.flatVariance[i]!) / (f * f);
+    mask[i] = mask[i]! | cal.flatMask[i]!;
+  }
+  return { sci, var: variance, mask };
+}

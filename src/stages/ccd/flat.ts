@@ -1,0 +1,151 @@
+/**
+ * Master flat. The lamp flats (bias subtracted) are scaled to a common level and combined with
+ * clipping against the noise model; the combination is then divided, row by row along the
+ * dispersion, by a smooth Legendre fit, so that only the pixel-to-pixel sensitivity remains (or,
+ * with flatKeepsIllumination, by one fitted spectral shape for all rows, which keeps the slit
+ * illumination). Pixels too dark to divide by are masked and given the value 1.
+ */
+import { clippedMeanStack } from '../../kernels/combine.js';
+import { fitLegendre1D } from '../../kernels/legendre-fit.js';
+import { evalLegendre1D } from '../../kernels/legendre.js';
+import { median } from '../../kernels/robust.js';
+import { MASK_BITS } from '../../products/frame.js';
+import { sampledMedian } from './level.js';
+import type { CcdSettings } from './settings.js';
+
+export interface CombinedFlat {
+  /** ADU above bias at the common level, trimmed raw orientation. */
+  data: Float32Array;
+  /** The common level (mean of the frames' sampled medians), ADU. */
+  levelAdu: number;
+  count: number;
+}
+
+/** `frames`: bias-subtracted flats, ADU. Each is scaled by levelAdu / its own sampled median. */
+export function combineFlats(frames: Float32Array[], gain: number, readNoiseE: number, settings: CcdSettings): CombinedFlat {
+  const levels = frames.map(sampledMedian);
+  const levelAdu = levels.reduce((a, b) => a + b, 0) / levels.length;
+  const scaled = frames.map((f, i) => {
+    const k = levelAdu / levels[i]!;
+    const out = new Float32Array(f.length);
+    for (let p = 0; p < f.length; p++) out[p] = f[p]! * k;
+    return out;
+  });
+  const data = new Float32Array(frames[0]!.length);
+  const rnAdu = readNoiseE / gain;
+  clippedMeanStack(scaled, data, {
+    nSigma: settings.combineSigma,
+    maxIterations: settings.combineIterations,
+    noise: { constant: rnAdu * rnAdu, perSignal: 1 / gain },
+  });
+  return { data, levelAdu, count: frames.length };
+}
+
+export interface NormalisedFlat {
+  /** Normalised flat, internal orientation; 1 where masked. */
+  flat: Float32Array;
+  /** Variance of each value of `flat` from the counts of the combination. */
+  variance: Float32Array;
+  /** zeroFlat and outsideData bits (and the excluded bits passed in). */
+  mask: Uint16Array;
+  /** The smooth model the combination was divided by, ADU, for the report. */
+  model: Float32Array;
+  /** Rows (internal) without enough illuminated pixels to fit; wholly outsideData. */
+  unfitRows: number[];
+}
+
+/**
+ * `combined`: the combined flat in the internal orientation (ADU). `exclude`: pixels left out
+ * of the fits (bad columns), kept in the mask. Variance of the combination per pixel, ADU^2:
+ * (C / g + (RN / g)^2 + var(bias)) / nFlats.
+ */
+export function normaliseFlat(
+  combined: Float32Array,
+  width: number,
+  height: number,
+  exclude: Uint16Array,
+  noise: { gain: number; readNoiseE: number; biasVarianceAdu: number; count: number },
+  settings: CcdSettings,
+): NormalisedFlat {
+  const n = width * height;
+  const mask = exclude.slice();
+  const level = sampledMedian(combined);
+  const dark = settings.illuminationMinimum * level;
+  for (let i = 0; i < n; i++) if (!(combined[i]! >= dark)) mask[i] = mask[i]! | MASK_BITS.outsideData;
+  const model = new Float32Array(n);
+  const unfitRows: number[] = [];
+  const xs = new Float64Array(width);
+  for (let x = 0; x < width; x++) xs[x] = x;
+  const weights = new Float64Array(width);
+  const order = settings.flatOrder;
+  const fitOptions = { clipSigma: 3, maxIterations: 3 };
+  if (settings.flatKeepsIllumination) {
+    // One spectral shape: column medians over the illuminated rows, fitted along x.
+    const shape = new Float64Array(width);
+    const column = new Float64Array(height);
+    for (let x = 0; x < width; x++) {
+      let k = 0;
+      for (let y = 0; y < height; y++) if (!(mask[y * width + x]! & MASK_BITS.outsideData)) column[k++] = combined[y * width + x]!;
+      shape[x] = k > 0 ? median(column.subarray(0, k)) : NaN;
+      weights[x] = k > 0 ? 1 : 0;
+    }
+    const fit = fitLegendre1D(xs, shape.map((v) => (v === v ? v : 0)), weights, order, { min: 0, max: width - 1 }, fitOptions);
+    const values = new Float64Array(width);
+    for (let x = 0; x < width; x++) values[x] = evalLegendre1D(fit.model, x);
+    let sum = 0;
+    let count = 0;
+    for (let i = 0; i < n; i++) {
+      if (!mask[i]) {
+        sum += combined[i]! / values[i % width]!;
+        count++;
+      }
+    }
+    const mean = count > 0 ? sum / count : 1; // normalise the illumination to a mean of 1
+    for (let i = 0; i < n; i++) model[i] = values[i % width]! * mean;
+  } else {
+    const row = new Float64Array(width);
+    for (let y = 0; y < height; y++) {
+      for (let x = 0; x < width; x++) row[x] = combined[y * width + x]!;
+      // Bad columns stay out of the fit, unless they are the whole row (a transposed frame).
+      let usable = rowWeights(mask, y, width, MASK_BITS.outsideData | MASK_BITS.badColumn, weights);
+      if (usable < 2 * (order + 1)) usable = rowWeights(mask, y, width, MASK_BITS.outsideData, weights);
+      if (usable < 2 * (order + 1)) {
+        unfitRows.push(y);
+        for (let x = 0; x < width; x++) {
+          mask[y * width + x] = mask[y * width + x]! | MASK_BITS.outsideData;
+          model[y * width + x] = 1;
+        }
+        continue;
+      }
+      const fit = fitLegendre1D(xs, row, weights, order, { min: 0, max: width - 1 }, fitOptions);
+      for (let x = 0; x < width; x++) model[y * width + x] = evalLegendre1D(fit.model, x);
+    }
+  }
+  const flat = new Float32Array(n);
+  const variance = new Float32Array(n);
+  const g = noise.gain;
+  const rnAdu2 = (noise.readNoiseE / g) ** 2;
+  for (let i = 0; i < n; i++) {
+    const c = combined[i]!;
+    const value = c / model[i]!;
+    if (mask[i]! & MASK_BITS.outsideData || !(value >= settings.flatMinimum)) {
+      if (!(mask[i]! & MASK_BITS.outsideData)) mask[i] = mask[i]! | MASK_BITS.zeroFlat;
+      flat[i] = 1;
+      variance[i] = 0;
+      continue;
+    }
+    flat[i] = value;
+    variance[i] = (c / g + rnAdu2 + noise.biasVarianceAdu) / noise.count / (model[i]! * model[i]!);
+  }
+  return { flat, variance, mask, model, unfitRows };
+}
+
+/** weights[x] = 0 where the row's mask has any of `bits`, else 1; returns the count of ones. */
+function rowWeights(mask: Uint16Array, y: number, width: number, bits: number, weights: Float64Array): number {
+  let usable = 0;
+  for (let x = 0; x < width; x++) {
+    weights[x] = mask[y * width + x]! & bits ? 0 : 1;
+    usable += weights[x]!;
+  }
+  return usable;
+}

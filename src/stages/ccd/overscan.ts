@@ -1,0 +1,86 @@
+/**
+ * Overscan correction and trimming: the overscan level of each readout line is measured (median
+ * across the strip), a low-order Legendre series is fitted along the strip, and its value is
+ * subtracted from every data pixel of that line; the result is cut to the data section.
+ */
+import { fitLegendre1D } from '../../kernels/legendre-fit.js';
+import { evalLegendre1D, type Legendre1D } from '../../kernels/legendre.js';
+import { medianOfBuffer } from '../../kernels/robust.js';
+import { MASK_BITS, type RawFrame } from '../../products/frame.js';
+import type { Detector } from './detector.js';
+
+/** A trimmed frame in the raw orientation, ADU, overscan removed. */
+export interface TrimmedFrame {
+  width: number;
+  height: number;
+  /** ADU after the overscan fit is subtracted. */
+  data: Float32Array;
+  /** MASK_BITS.saturated where the raw value reached the saturation level. */
+  mask: Uint16Array;
+  /** The fitted overscan level (ADU) along the strip, or null without an overscan. */
+  overscanModel: Legendre1D | null;
+  /** RMS (ADU) of the per-line overscan medians about the fit. */
+  overscanRmsAdu: number;
+  /** Whether the overscan level varies along raw y (strip of columns) or raw x (strip of rows). */
+  overscanAlong: 'y' | 'x' | null;
+}
+
+export function trimFrame(frame: RawFrame, det: Detector, overscanOrder: number): TrimmedFrame {
+  const { data: s } = det;
+  const width = s.x1 - s.x0;
+  const height = s.y1 - s.y0;
+  const out = new Float32Array(width * height);
+  const mask = new Uint16Array(width * height);
+  const level = overscanLevel(frame, det, overscanOrder);
+  // level.values is indexed by raw y (column strip) or raw x (row strip), full frame length.
+  for (let y = 0; y < height; y++) {
+    const ry = y + s.y0;
+    const rowLevel = level.along === 'y' ? level.values[ry]! : 0;
+    const src = ry * frame.width + s.x0;
+    const dst = y * width;
+    for (let x = 0; x < width; x++) {
+      const v = frame.data[src + x]!;
+      if (v >= det.saturationAdu) mask[dst + x] = MASK_BITS.saturated;
+      out[dst + x] = v - (level.along === 'x' ? level.values[x + s.x0]! : rowLevel);
+    }
+  }
+  return { width, height, data: out, mask, overscanModel: level.model, overscanRmsAdu: level.rms, overscanAlong: level.along };
+}
+
+interface OverscanLevel {
+  along: 'y' | 'x' | null;
+  values: Float64Array;
+  model: Legendre1D | null;
+  rms: number;
+}
+
+function overscanLevel(frame: RawFrame, det: Detector, order: number): OverscanLevel {
+  const o = det.overscan;
+  if (!o) return { along: null, values: new Float64Array(0), model: null, rms: NaN };
+  // The strip's long side runs along the readout direction it samples.
+  const along: 'y' | 'x' = o.y1 - o.y0 >= o.x1 - o.x0 ? 'y' : 'x';
+  const [lo, hi] = along === 'y' ? [o.y0, o.y1] : [o.x0, o.x1];
+  const [acrossLo, acrossHi] = along === 'y' ? [o.x0, o.x1] : [o.y0, o.y1];
+  const n = hi - lo;
+  const pos = new Float64Array(n);
+  const med = new Float64Array(n);
+  const scratch = new Float64Array(acrossHi - acrossLo);
+  for (let i = 0; i < n; i++) {
+    const line = lo + i;
+    for (let j = acrossLo; j < acrossHi; j++) {
+      scratch[j - acrossLo] = along === 'y' ? frame.data[line * frame.width + j]! : frame.data[j * frame.width + line]!;
+    }
+    pos[i] = line;
+    med[i] = medianOfBuffer(scratch, acrossHi - acrossLo);
+  }
+  const fitOrder = Math.min(order, n - 2);
+  const length = along === 'y' ? frame.height : frame.width;
+  const values = new Float64Array(length);
+  if (fitOrder < 0) {
+    values.fill(med[0]!);
+    return { along, values, model: null, rms: 0 };
+  }
+  const fit = fitLegendre1D(pos, med, null, fitOrder, { min: 0, max: length - 1 }, { clipSigma: 3 });
+  for (let i = 0; i < length; i++) values[i] = evalLegendre1D(fit.model, i);
+  return { along, values, model: fit.model, rms: fit.rms };
+}

@@ -1,0 +1,87 @@
+/**
+ * Settings of the CCD stage. Every field has its unit and default; header keywords fill what the
+ * settings leave out (gain, read noise, sections, saturation), and a value set here wins.
+ */
+
+/** Van Dokkum (2001, PASP 113, 1420) Laplacian cosmic-ray detection on a single exposure. */
+export interface LaplacianSettings {
+  /** Detection limit on the noise-normalised, large-structure-removed Laplacian S' (paper's sigma_lim). Default 4.5 [recalled, REFERENCE.md]. */
+  sigmaLim: number;
+  /** Fraction of sigmaLim for the neighbours of a detection (paper's sigma_frac). Default 0.3 [recalled]. */
+  sigmaFrac: number;
+  /** Least contrast of the Laplacian over the fine-structure image (paper's f_lim). Default 2 [recalled]. */
+  fLim: number;
+  /** Detection rounds, each on the image cleaned by the previous ones. Default 4 [recalled]. */
+  iterations: number;
+  /**
+   * whorl's own addition for long-slit spectra: a candidate must also stand out by sigmaLim noise
+   * sigmas above the median of its four slit neighbours (same internal x, y +-1, +-2), since
+   * emission and sky lines are smooth along the slit and cosmic rays are not. Default true.
+   */
+  slitProtection: boolean;
+}
+
+export interface CcdSettings {
+  /** Raw axis along which wavelength runs; `auto` decides from the arc frames' line structure. Default `auto`. */
+  dispersionAxis: 'auto' | 'x' | 'y';
+  /** Detector gain, e-/ADU. Default: header GAIN; missing both is an InputError. */
+  gain?: number;
+  /** Read noise, e- (rms per pixel). Default: header RDNOISE; missing both is an InputError. */
+  readNoise?: number;
+  /** Overscan strip, FITS 1-based inclusive '[x1:x2,y1:y2]'. Default: header BIASSEC; none means no overscan correction. */
+  biasSection?: string;
+  /** Data area, FITS 1-based inclusive '[x1:x2,y1:y2]'. Default: header DATASEC, else the whole frame. */
+  dataSection?: string;
+  /** Saturation level in raw ADU (before any subtraction). Default: header SATURATE, else 65535. */
+  saturationAdu?: number;
+  /** Order of the Legendre series fitted along the overscan strip. Default 3 (common practice: low order). */
+  overscanOrder: number;
+  /** Clipping threshold (noise sigmas) for the bias, flat and arc combinations. Default 3 (common practice). */
+  combineSigma: number;
+  /** Most clipping rounds in those combinations. Default 5 (common practice). */
+  combineIterations: number;
+  /** Order of the Legendre series fitted along the dispersion to normalise the flat. Default 9. */
+  flatOrder: number;
+  /** Keep the slit illumination profile in the flat (divide by one spectral shape for all rows). Default false. */
+  flatKeepsIllumination: boolean;
+  /** Normalised flat values below this are masked (zeroFlat) and not divided. Default 0.2 (common practice). */
+  flatMinimum: number;
+  /** Pixels whose combined flat is below this fraction of the illuminated level are outsideData. Default 0.1 (common practice). */
+  illuminationMinimum: number;
+  /** A detector column is bad when its median departs from its neighbours' by this many robust sigmas. Default 10 (common practice). */
+  badColumnSigma: number;
+  /** Cosmic-ray threshold (noise sigmas) when several exposures are combined. Default 5 (common practice). */
+  crSigma: number;
+  /** Fractional scatter between exposures added to the noise model (seeing, transparency), so bright line cores are not clipped. Default 0.03 (common practice). */
+  crRelativeScatter: number;
+  /** Exposure pixels adjacent (8-neighbours) to a rejected hit are rejected too, to this radius in pixels. Default 1. */
+  crGrow: number;
+  /** Clean a lone science exposure with van Dokkum's Laplacian method. Default true. */
+  cleanSingleExposure: boolean;
+  laplacian: LaplacianSettings;
+}
+
+export const DEFAULT_LAPLACIAN_SETTINGS: LaplacianSettings = Object.freeze({
+  sigmaLim: 4.5,
+  sigmaFrac: 0.3,
+  fLim: 2,
+  iterations: 4,
+  slitProtection: true,
+});
+
+export const DEFAULT_CCD_SETTINGS: CcdSettings = Object.freeze({
+  dispersionAxis: 'auto',
+  overscanOrder: 3,
+  combineSigma: 3,
+  combineIterations: 5,
+  flatOrder: 9,
+  flatKeepsIllumination: false,
+  flatMinimum: 0.2,
+  illuminationMinimum: 0.1,
+  badColumnSigma: 10,
+  crSigma: 5,
+  crRelativeScatter: 0.03,
+  crGrow: 1,
+  cleanSingleExposure: true,
+  laplacian: DEFAULT_LAPLACIAN_SETTINGS,
+}) as CcdSettings;
