@@ -8,11 +8,12 @@ import { EXIT, InputError } from '../errors.js';
 import { VERSION } from '../version.js';
 import { type CliIo, processIo } from './io.js';
 import { registerInspect } from './commands/inspect.js';
+import { registerSimulate } from './commands/simulate.js';
 
 /** Each command module adds itself to the program; the action returns the exit code. */
 export type CommandRegistrar = (program: Command, io: CliIo, setExit: (code: number) => void) => void;
 
-const COMMANDS: CommandRegistrar[] = [registerInspect];
+const COMMANDS: CommandRegistrar[] = [registerInspect, registerSimulate];
 
 export async function main(argv: string[], io: CliIo = processIo()): Promise<number> {
   let exitCode: number = EXIT.ok;
