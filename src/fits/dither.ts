@@ -11,11 +11,14 @@ export const QUANTISED_NULL = -2147483647;
 export const QUANTISED_ZERO = -2147483646;
 
 const N_RANDOM = 10000;
-let sequence: Float64Array | undefined;
+let sequence: Float32Array | undefined;
 
-/** The convention's random sequence; its last seed must be 1043618065 (checked in the tests). */
-export function ditherSequence(): { values: Float64Array; lastSeed: number } {
-  const values = new Float64Array(N_RANDOM);
+/**
+ * The convention's random sequence, held in single precision as cfitsio holds it (the restored
+ * values depend on that rounding); its last seed must be 1043618065 (checked in the tests).
+ */
+export function ditherSequence(): { values: Float32Array; lastSeed: number } {
+  const values = new Float32Array(N_RANDOM);
   const a = 16807;
   const m = 2147483647;
   let seed = 1;
