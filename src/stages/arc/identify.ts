@@ -4,6 +4,7 @@
  * wins. Fails with a StageError that says what was found and what to change.
  */
 import { StageError } from '../../errors.js';
+import { evalLegendre1D } from '../../kernels/legendre.js';
 import type { LampLine } from '../../physics/catalogues.js';
 import { linearGuesses, type LinearGuess } from './first-guess.js';
 import { refineGuess, type LineMatches, type MatchPeak } from './match.js';
@@ -37,6 +38,23 @@ export function unblendedLines(lines: LampLine[], blendAngstrom: number): LampLi
     }
     return true;
   });
+}
+
+/**
+ * Whether matches are a believable identification rather than a chance alignment: enough lines,
+ * a small scatter, a scale inside the searched ranges, and a large share of what could match
+ * (the lines the solution puts on the detector, or the peaks if fewer) actually matched.
+ */
+function acceptable(m: LineMatches, nPeaks: number, lines: LampLine[], guess: LinearGuess, width: number, settings: ArcSettings): boolean {
+  if (m.nUsed < settings.minLines || m.rmsPx > settings.maxRmsPx) return false;
+  const lo = evalLegendre1D(m.fit.model, 0);
+  const hi = evalLegendre1D(m.fit.model, width - 1);
+  const centre = evalLegendre1D(m.fit.model, (width - 1) / 2);
+  const dispersion = (hi - lo) / (width - 1);
+  if (Math.abs(centre - settings.approxWavelength) > settings.centreSearchAngstrom + 5 * guess.dispersion) return false;
+  if (Math.abs(dispersion / settings.approxDispersion - 1) > settings.dispersionSearch + 0.02) return false;
+  const onDetector = lines.filter((l) => l.wavelength >= lo && l.wavelength <= hi).length;
+  return m.nUsed >= settings.minMatchedFraction * Math.min(nPeaks, onDetector);
 }
 
 export interface IdentifyInputs {
@@ -73,13 +91,13 @@ export function identifyLines(input: IdentifyInputs, lampLines: LampLine[], sett
   for (const guess of guesses) {
     const peaks = input.peaks.map((p) => ({ x: guess.flipped ? width - 1 - p.x : p.x, xErr: p.xErr }));
     const matches = refineGuess(peaks, usable, guess, width, finalOrder, settings.clipSigma);
-    if (!matches || matches.nUsed < settings.minLines || matches.rmsPx > settings.maxRmsPx) continue;
+    if (!matches || !acceptable(matches, peaks.length, usable, guess, width, settings)) continue;
     if (!best || matches.nUsed > best.matches.nUsed || (matches.nUsed === best.matches.nUsed && matches.rmsPx < best.matches.rmsPx)) {
       best = { flipped: guess.flipped, guess, peaks, matches, lines: usable };
     }
   }
   if (!best) {
-    throw new StageError('arc', 'arc.unidentified', `cannot identify the arc ${input.arcName}: ${input.peaks.length} clean lines found in the central band, ${usable.length} catalogue lines in the expected range, but no trial dispersion within ${Math.round(settings.dispersionSearch * 100)}% of ${settings.approxDispersion} A/px and centre within ${settings.centreSearchAngstrom} A of ${settings.approxWavelength} A matched ${settings.minLines} lines with an RMS below ${settings.maxRmsPx} px; ${hint}`);
+    throw new StageError('arc', 'arc.unidentified', `cannot identify the arc ${input.arcName}: ${input.peaks.length} clean lines found in the central band, ${usable.length} catalogue lines in the expected range, but no trial dispersion within ${Math.round(settings.dispersionSearch * 100)}% of ${settings.approxDispersion} A/px and centre within ${settings.centreSearchAngstrom} A of ${settings.approxWavelength} A matched ${settings.minLines} lines and ${Math.round(100 * settings.minMatchedFraction)}% of the lines it expects with an RMS below ${settings.maxRmsPx} px; ${hint}`);
   }
   return best;
 }

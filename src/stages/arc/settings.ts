@@ -32,8 +32,13 @@ export interface ArcSettings {
   blendSigma: number;
   /** Fewest identified lines for a solution. Default 6. */
   minLines: number;
-  /** Above this RMS (pixels) the identification is refused as wrong. Default 0.5 (REFERENCE.md: > 0.2 px suggests a misidentification; common practice). */
+  /** Above this RMS (pixels) of the central band the identification is refused as wrong. Default 0.25 (REFERENCE.md: > 0.2 px suggests a misidentification; common practice). */
   maxRmsPx: number;
+  /**
+   * Share of the possible matches (catalogue lines the solution puts on the detector, or the clean
+   * peaks if fewer) that must match for the identification to be believed. Default 0.5.
+   */
+  minMatchedFraction: number;
   /** Largest jump (pixels) of a line between neighbouring bands when tracing along the slit. Default 1.5. */
   traceTolerancePx: number;
 }
@@ -50,7 +55,8 @@ export const DEFAULT_ARC_SETTINGS: Omit<ArcSettings, 'approxWavelength' | 'appro
   centreSearchAngstrom: 150,
   blendSigma: 4,
   minLines: 6,
-  maxRmsPx: 0.5,
+  maxRmsPx: 0.25,
+  minMatchedFraction: 0.5,
   traceTolerancePx: 1.5,
 });
 
@@ -83,6 +89,7 @@ export function checkArcSettings(s: ArcSettings): void {
   if (!(s.centreSearchAngstrom >= 0)) bad('centreSearchAngstrom', 'Angstrom >= 0', s.centreSearchAngstrom);
   if (!(s.minLines >= 3)) bad('minLines', 'an integer >= 3', s.minLines);
   if (!(s.maxRmsPx > 0)) bad('maxRmsPx', 'pixels > 0', s.maxRmsPx);
+  if (!(s.minMatchedFraction >= 0 && s.minMatchedFraction <= 1)) bad('minMatchedFraction', 'a fraction in [0, 1]', s.minMatchedFraction);
   if (!(s.traceTolerancePx > 0)) bad('traceTolerancePx', 'pixels > 0', s.traceTolerancePx);
   if (!(s.blendSigma >= 0)) bad('blendSigma', 'a number >= 0', s.blendSigma);
 }
