@@ -28,7 +28,8 @@ function formatNumber(v: number, key: string): string {
 
 /** The value as it appears on the card (strings quoted, not padded). */
 export function formatValue(v: CardValue, key: string): string {
-  if (typeof v === 'string') return `'${ascii(v).replace(/'/g, "''").padEnd(8)}'`;
+  // Only XTENSION must be padded to 8 characters (section 4.2.1.1); other strings are written as they are.
+  if (typeof v === 'string') return `'${ascii(v).replace(/'/g, "''").padEnd(key === 'XTENSION' ? 8 : 0)}'`;
   if (typeof v === 'boolean') return v ? 'T' : 'F';
   if (typeof v === 'bigint') return v.toString();
   if (typeof v === 'number') return formatNumber(v, key);
@@ -101,10 +102,16 @@ export function formatCard(card: Card): string[] {
   return [withComment(prefix + field, card.comment)];
 }
 
-/** All cards plus END, padded with spaces to whole 2880-byte blocks, as one ASCII string. */
+/**
+ * All cards plus END, padded with spaces to whole 2880-byte blocks, as one ASCII string. A header
+ * with CONTINUE cards gets LONGSTRN = 'OGIP 1.0', which fitsverify asks for (HEASARC convention).
+ */
 export function formatHeader(cards: readonly Card[]): string {
   const lines: string[] = [];
   for (const c of cards) for (const l of formatCard(c)) lines.push(l.padEnd(CARD_BYTES));
+  if (lines.some((l) => l.startsWith('CONTINUE  ')) && !cards.some((c) => c.key === 'LONGSTRN')) {
+    lines.push(formatCard({ key: 'LONGSTRN', value: 'OGIP 1.0', comment: 'long strings use CONTINUE cards' })[0]!.padEnd(CARD_BYTES));
+  }
   lines.push('END'.padEnd(CARD_BYTES));
   const text = lines.join('');
   return text.padEnd(Math.ceil(text.length / BLOCK_BYTES) * BLOCK_BYTES);

@@ -8,7 +8,7 @@ import type { ImageHduSpec, TableHduSpec } from './write-types.js';
 
 const INT_RANGE: Record<number, [number, number]> = { 8: [0, 255], 16: [-32768, 32767], 32: [-2147483648, 2147483647] };
 
-/** Stored integer value that marks NaN pixels, when the data have any (the type's minimum). */
+/** Stored integer value that marks NaN pixels, when the data have any: the type's minimum, which other values are then clipped above. */
 export function blankFor(spec: ImageHduSpec): number | undefined {
   if (spec.bitpix < 0) return undefined;
   const d = spec.data;
@@ -31,12 +31,14 @@ export function encodeImage(spec: ImageHduSpec, out: Uint8Array, offset: number,
   }
   const zero = spec.bzero ?? 0;
   const scale = spec.bscale ?? 1;
-  const [lo, hi] = INT_RANGE[spec.bitpix]!;
+  const [min, hi] = INT_RANGE[spec.bitpix]!;
+  const lo = blank === undefined ? min : min + 1;
   const b = blank ?? 0;
   for (let i = 0; i < n; i++) {
     const v = d[i]!;
-    let s = v !== v ? b : Math.round((v - zero) / scale);
-    if (s < lo) s = lo;
+    let s = Math.round((v - zero) / scale);
+    if (v !== v) s = b;
+    else if (s < lo) s = lo;
     else if (s > hi) s = hi;
     if (spec.bitpix === 16) view.setInt16(2 * i, s);
     else if (spec.bitpix === 32) view.setInt32(4 * i, s);
