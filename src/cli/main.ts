@@ -9,11 +9,12 @@ import { VERSION } from '../version.js';
 import { type CliIo, processIo } from './io.js';
 import { registerInspect } from './commands/inspect.js';
 import { registerSimulate } from './commands/simulate.js';
+import { registerReduce } from './commands/reduce.js';
 
 /** Each command module adds itself to the program; the action returns the exit code. */
 export type CommandRegistrar = (program: Command, io: CliIo, setExit: (code: number) => void) => void;
 
-const COMMANDS: CommandRegistrar[] = [registerInspect, registerSimulate];
+const COMMANDS: CommandRegistrar[] = [registerInspect, registerSimulate, registerReduce];
 
 export async function main(argv: string[], io: CliIo = processIo()): Promise<number> {
   let exitCode: number = EXIT.ok;

@@ -6,6 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { InputError } from '../../errors.js';
+import { GALAXY_LINES, KNOWN_LAMPS, readLineListFile } from '../../physics/catalogues.js';
 import { uniqueFolderNames } from '../names.js';
 import { globFiles } from './glob.js';
 import { parseManifestText, type ParsedManifest } from './parse.js';
@@ -14,6 +15,8 @@ import type { ManifestSetup, ManifestTarget } from './schema.js';
 /** A setup with its file lists as absolute paths (sorted, duplicates removed). */
 export interface ResolvedSetup extends Omit<ManifestSetup, 'line_lists'> {
   name: string;
+  /** Folder under `<output>/calib/` (safe, unique; see names.ts). */
+  folder: string;
   line_lists: string[];
 }
 
@@ -21,8 +24,6 @@ export interface ResolvedSetup extends Omit<ManifestSetup, 'line_lists'> {
 export interface ResolvedTarget extends ManifestTarget {
   /** Folder under `output` (safe, unique; see names.ts). */
   folder: string;
-  /** Inclination error, degrees (default 3, common practice for photometric inclinations). */
-  inclination_err_deg: number;
   velocity_convention: 'optical' | 'relativistic';
   velocity_frame: 'barycentric' | 'heliocentric';
 }
@@ -36,9 +37,6 @@ export interface ResolvedRun {
   setups: Record<string, ResolvedSetup>;
   targets: ResolvedTarget[];
 }
-
-/** Default inclination error, degrees (common practice: photometric inclinations are good to a few degrees). */
-export const DEFAULT_INCLINATION_ERR_DEG = 3;
 
 /** Read, validate and resolve a manifest file; throws InputError for every user mistake. */
 export function loadManifest(path: string): ResolvedRun {
@@ -67,24 +65,40 @@ export function resolveManifest(parsed: ParsedManifest, manifestPath: string, di
     });
     return [...out].sort();
   };
+  const refuse = (keyPath: (string | number)[], message: string, expected: string): never => {
+    throw new InputError('manifest.invalid', message, { file: displayPath, ...parsed.locate(keyPath) }, { expected });
+  };
   const setups: Record<string, ResolvedSetup> = {};
-  for (const [name, s] of Object.entries(m.setups)) {
+  const setupFolders = uniqueFolderNames(Object.keys(m.setups));
+  for (const [index, [name, s]] of Object.entries(m.setups).entries()) {
     const key = ['setups', name];
+    s.lamps.forEach((lamp, i) => {
+      if (!KNOWN_LAMPS.some((k) => k.toLowerCase() === lamp.toLowerCase())) {
+        refuse([...key, 'lamps', i], `no built-in line list for the lamp '${lamp}'`, `one of ${KNOWN_LAMPS.join(', ')}, or a file under line_lists`);
+      }
+    });
     setups[name] = {
       ...s,
       name,
+      folder: setupFolders[index]!,
       bias: expand(s.bias, [...key, 'bias']),
       flat: expand(s.flat, [...key, 'flat']),
       arc: expand(s.arc, [...key, 'arc']),
       line_lists: expand(s.line_lists ?? [], [...key, 'line_lists']),
     };
+    // Malformed line lists are user mistakes: find them now, before any pixel is read.
+    for (const file of setups[name].line_lists) readLineListFile(file);
   }
+  m.targets.forEach((t, i) =>
+    t.lines.forEach((line, j) => {
+      if (!Object.hasOwn(GALAXY_LINES, line)) refuse(['targets', i, 'lines', j], `unknown line name '${line}'`, `one of ${Object.keys(GALAXY_LINES).join(', ')}`);
+    }),
+  );
   const folders = uniqueFolderNames(m.targets.map((t) => t.name));
   const targets = m.targets.map((t, i): ResolvedTarget => ({
     ...t,
     folder: folders[i]!,
     frames: expand(t.frames, ['targets', i, 'frames']),
-    inclination_err_deg: t.inclination_err_deg ?? DEFAULT_INCLINATION_ERR_DEG,
     velocity_convention: t.velocity_convention ?? 'optical',
     velocity_frame: t.velocity_frame ?? 'barycentric',
   }));
@@ -98,4 +112,10 @@ export function deepFreeze<T>(value: T): T {
     for (const v of Object.values(value as object)) deepFreeze(v);
   }
   return value;
+}
+
+/** A path as people read it in products: relative to the manifest's folder when inside it, else absolute. */
+export function manifestRelative(baseDir: string, path: string): string {
+  const base = baseDir.endsWith('/') ? baseDir : `${baseDir}/`;
+  return path.startsWith(base) ? path.slice(base.length) : path;
 }

@@ -86,7 +86,7 @@ export const targetSchema = z
     inclination_deg: z.number().gt(0).max(90).optional(),
     /** Apparent minor/major axis ratio b/a; the inclination follows from Hubble's formula. */
     axis_ratio: z.number().gt(0).max(1).optional(),
-    /** Inclination error, degrees; enters the systematic error of the curve. Default 3 (common practice). */
+    /** Inclination error, degrees; enters the systematic error of the curve. Default: none (0, and the report says so). */
     inclination_err_deg: z.number().nonnegative().optional(),
     /** Position angle of the major axis (receding side), degrees east of north. */
     major_axis_pa_deg: finite,

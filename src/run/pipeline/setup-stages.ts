@@ -1,0 +1,92 @@
+/**
+ * The calibrations of one setup, computed once and shared by its targets: bias, flat and arc
+ * frames through the CCD stage, the arc through the wavelength solution; products written under
+ * `calib/<setup>/`, and the whole result cached on disk by the setup's key.
+ */
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Diagnostic } from '../../diagnostics.js';
+import { writeFits } from '../../fits/write.js';
+import { loadLampLines, readLineListFile, type LampLine } from '../../physics/catalogues.js';
+import type { WavelengthSolution } from '../../products/wavelength.js';
+import { masterBiasFits, masterFlatFits, type CalibrationFits } from '../../products/writers/calibration.js';
+import { solveWavelengths } from '../../stages/arc/solve.js';
+import type { ArcSettings } from '../../stages/arc/settings.js';
+import { buildCalibration } from '../../stages/ccd/build-calibration.js';
+import type { CcdCalibration } from '../../stages/ccd/calibration.js';
+import type { CcdSettings } from '../../stages/ccd/settings.js';
+import { VERSION } from '../../version.js';
+import type { EventSink } from '../events.js';
+import { writeFileAtomic } from '../io/atomic.js';
+import { readCachedCalibration, writeCachedCalibration } from '../io/state.js';
+import type { ResolvedRun, ResolvedSetup } from '../manifest/resolve.js';
+import { describeFailure } from '../failure.js';
+import { loadFrames } from './frames.js';
+import { arcSettingsFor, ccdSettingsFor } from './settings.js';
+import { StageTimer } from './timer.js';
+
+/** Stage names of a setup's calibration, in order (progress and cache keys). */
+export const SETUP_STAGES = ['load calibrations', 'ccd calibration', 'wavelength solution', 'write calibrations'] as const;
+
+export interface SetupCalibration {
+  ccd: CcdCalibration;
+  solution: WavelengthSolution;
+  diagnostics: Diagnostic[];
+  settings: { ccd: CcdSettings; arc: ArcSettings };
+  /** Calibration product files, relative to the output folder. */
+  products: string[];
+  /** HISTORY lines for the FITS products of the targets. */
+  history: string[];
+}
+
+export type SetupResult =
+  | { ok: true; calibration: SetupCalibration; /** Stage times (ms) when computed now; absent when reused. */ ms?: Record<string, number> }
+  | { ok: false; code: string; reason: string };
+
+/** Reuse the cached calibration of `key` (unless `force`) or compute and cache it; never throws. */
+export function calibrateSetupCached(setup: ResolvedSetup, run: ResolvedRun, key: string, force: boolean, emit: EventSink, now: () => number): SetupResult {
+  if (!force) {
+    const cached = readCachedCalibration<SetupCalibration>(run.outputDir, setup.folder, key);
+    if (cached && cached.products.every((p) => existsSync(join(run.outputDir, p)))) return { ok: true, calibration: cached };
+  }
+  const timer = new StageTimer({ setup: setup.name }, SETUP_STAGES.length, emit, now);
+  try {
+    const calibration = calibrateSetup(setup, run, timer);
+    writeCachedCalibration(run.outputDir, setup.folder, key, calibration);
+    return { ok: true, calibration, ms: timer.ms };
+  } catch (e) {
+    const [code, reason] = describeFailure(e);
+    return { ok: false, code, reason };
+  }
+}
+
+export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: StageTimer): SetupCalibration {
+  const ccdSettings = ccdSettingsFor(setup);
+  const arcSettings = arcSettingsFor(setup);
+  const frames = timer.step(SETUP_STAGES[0], () => ({
+    bias: loadFrames(setup.bias, run.baseDir),
+    flat: loadFrames(setup.flat, run.baseDir),
+    arc: loadFrames(setup.arc, run.baseDir),
+  }));
+  const ccd = timer.stage(SETUP_STAGES[1], () => buildCalibration(frames, ccdSettings));
+  const lampLines: LampLine[] = [...loadLampLines(setup.lamps), ...setup.line_lists.flatMap((f) => readLineListFile(f))].sort((a, b) => a.wavelength - b.wavelength);
+  const solution = timer.stage(SETUP_STAGES[2], () => solveWavelengths(ccd.arc, lampLines, arcSettings));
+  const history = [
+    `whorl ${VERSION}: setup ${setup.name}: ${frames.bias.length} bias, ${frames.flat.length} flat, ${frames.arc.length} arc frames`,
+    `ccd: gain ${ccd.gain} e-/ADU, read noise ${ccd.readNoiseE} e-, ${ccd.badColumns.length} bad columns`,
+    `ccd: orientation transpose=${ccd.orientation.transpose} flipX=${solution.flipX}`,
+    `arc: ${solution.lines.filter((l) => l.used).length} lines, rms ${solution.rmsAngstrom.toPrecision(3)} A`,
+  ];
+  const dir = join('calib', setup.folder);
+  const products = timer.step(SETUP_STAGES[3], () => {
+    const files: [string, CalibrationFits][] = [
+      ['bias.fits', masterBiasFits(ccd, frames.bias.map((f) => f.path), history)],
+      ['flat.fits', masterFlatFits(ccd, frames.flat.map((f) => f.path), history)],
+    ];
+    return files.map(([name, fits]) => {
+      writeFileAtomic(join(run.outputDir, dir, name), writeFits(fits.hdus, { primaryHeader: fits.primaryHeader }));
+      return join(dir, name);
+    });
+  });
+  return { ccd, solution, diagnostics: timer.diagnostics, settings: { ccd: ccdSettings, arc: arcSettings }, products, history };
+}

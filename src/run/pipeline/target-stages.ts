@@ -1,0 +1,49 @@
+/**
+ * The stages of one target, in the order of DEVELOPERS.md "Stage contracts", on its setup's
+ * calibration. Each stage is a pure function; this file only loads the science frames and
+ * threads the products through.
+ */
+import type { CalibratedFrame } from '../../products/frame.js';
+import { flipFrameX } from '../../products/orientation.js';
+import type { SkyModel } from '../../products/lines.js';
+import type { WavelengthSolution } from '../../products/wavelength.js';
+import { calibrateScience } from '../../stages/ccd/calibrate-science.js';
+import type { SkySettings } from '../../stages/sky/settings.js';
+import { subtractSky } from '../../stages/sky/subtract.js';
+import type { CcdSettings } from '../../stages/ccd/settings.js';
+import type { TargetJob } from '../target-job.js';
+import { loadFrames } from './frames.js';
+import type { SetupCalibration } from './setup-stages.js';
+import { skySettingsFor } from './settings.js';
+import type { StageTimer } from './timer.js';
+
+/** Stage names of a target, in order (progress and cache keys). */
+export const TARGET_STAGES = ['load science', 'ccd science', 'sky'] as const;
+
+/** The settings each stage ran with, for provenance. */
+export interface TargetStageSettings {
+  ccd: CcdSettings;
+  sky: SkySettings;
+}
+
+export interface TargetProducts {
+  /** The combined, calibrated science frame in the internal orientation (wavelength increasing with x). */
+  science: CalibratedFrame;
+  /** The setup's wavelength solution for this frame. */
+  solution: WavelengthSolution;
+  /** Sky-subtracted frame and the sky model. */
+  skySubtracted: CalibratedFrame;
+  sky: SkyModel;
+  settings: TargetStageSettings;
+}
+
+export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: StageTimer): TargetProducts {
+  const settings: TargetStageSettings = { ccd: cal.settings.ccd, sky: skySettingsFor(job.target) };
+  const frames = timer.step(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
+  const calibrated = timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
+  // The arc stage decided the direction of the wavelengths; the science follows it.
+  const science = cal.solution.flipX ? flipFrameX(calibrated) : calibrated;
+  const solution = cal.solution;
+  const sky = timer.stage(TARGET_STAGES[2], () => subtractSky(science, solution, settings.sky));
+  return { science, solution, skySubtracted: sky.frame, sky: sky.sky, settings };
+}

@@ -1,0 +1,3 @@
+export * from './json.js';
+export * from './plain.js';
+export * from './live.js';

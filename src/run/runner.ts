@@ -1,0 +1,166 @@
+/**
+ * `whorl reduce`: from a resolved manifest to products. Calibrations are computed once per setup
+ * (in this thread, cached on disk by content), then targets run in parallel on worker threads;
+ * each target's products are cached by a key of its inputs' sha256, its resolved settings, the
+ * stages that exist and the whorl version, so a rerun redoes only what changed.
+ */
+import { mkdirSync } from 'node:fs';
+import { basename, join } from 'node:path';
+import { InputError } from '../errors.js';
+import { VERSION } from '../version.js';
+import type { EventSink, RunEvent } from './events.js';
+import { removePartialFiles } from './io/atomic.js';
+import { canonicalJson, sha256File, sha256Text } from './io/hash.js';
+import { pack } from './io/pack.js';
+import { isUpToDate, readTargetState, STATE_DIR } from './io/state.js';
+import { manifestRelative, type ResolvedRun, type ResolvedSetup, type ResolvedTarget } from './manifest/resolve.js';
+import { calibrateSetupCached, SETUP_STAGES } from './pipeline/setup-stages.js';
+import { TARGET_STAGES } from './pipeline/target-stages.js';
+import { writeRunProducts } from './run-writes.js';
+import { buildSummary, type RunSummary, type SummaryEntry } from './summary.js';
+import { executeTargetJob, failedOutcome, type InputFile, type SetupCalibration, type TargetJob, type TargetOutcome } from './target-job.js';
+import { TargetPool, workerScriptAvailable } from './workers/pool.js';
+
+export interface ReduceOptions {
+  /** Targets in parallel (worker threads); 1 runs everything in this thread. */
+  jobs: number;
+  /** Names (or folder names) of the targets to run; default all. */
+  only?: readonly string[];
+  /** Ignore the cache and redo everything. */
+  force?: boolean;
+  onEvent?: EventSink;
+}
+
+export interface ReduceResult {
+  summary: RunSummary;
+  /** Outcomes of the targets run this time (cached ones excluded), by target name. */
+  outcomes: Map<string, TargetOutcome>;
+  cached: string[];
+  /** Per setup computed this time: wall time per calibration stage, ms. */
+  setupMs: Record<string, Record<string, number>>;
+  seconds: number;
+}
+
+export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<ReduceResult> {
+  const runStartMs = Date.now();
+  const now = () => (Date.now() - runStartMs) / 1000;
+  const emit: EventSink = opts.onEvent ?? (() => undefined);
+  const selected = selectTargets(run.targets, opts.only);
+  emit({ type: 'run-start', t: 0, targets: selected.map((t) => t.name), jobs: opts.jobs, stages: [...SETUP_STAGES, ...TARGET_STAGES] });
+  prepareFolders(run);
+
+  const hashes = new Map<string, string>();
+  const hashOf = (p: string) => hashes.get(p) ?? (hashes.set(p, sha256File(p)), hashes.get(p)!);
+  const rel = (p: string) => manifestRelative(run.baseDir, p);
+  const setupInputs = (s: ResolvedSetup): InputFile[] => [
+    ...s.bias.map((f) => ({ role: 'bias' as const, file: rel(f), sha256: hashOf(f) })),
+    ...s.flat.map((f) => ({ role: 'flat' as const, file: rel(f), sha256: hashOf(f) })),
+    ...s.arc.map((f) => ({ role: 'arc' as const, file: rel(f), sha256: hashOf(f) })),
+    ...s.line_lists.map((f) => ({ role: 'line-list' as const, file: rel(f), sha256: hashOf(f) })),
+  ];
+  const setupKeys = new Map<string, { key: string; inputs: InputFile[] }>();
+  const setupKeyOf = (s: ResolvedSetup) => {
+    let k = setupKeys.get(s.name);
+    if (!k) {
+      const inputs = setupInputs(s);
+      const settings = { ...s, bias: undefined, flat: undefined, arc: undefined, line_lists: undefined };
+      k = { key: sha256Text(canonicalJson({ whorl: VERSION, stages: SETUP_STAGES, settings, inputs })), inputs };
+      setupKeys.set(s.name, k);
+    }
+    return k;
+  };
+
+  const jobs: TargetJob[] = [];
+  const cached: string[] = [];
+  for (const t of selected) {
+    const setup = run.setups[t.setup]!;
+    const sk = setupKeyOf(setup);
+    const inputs = [...sk.inputs, ...t.frames.map((f) => ({ role: 'science' as const, file: rel(f), sha256: hashOf(f) }))];
+    const settings = { ...t, frames: undefined };
+    const key = sha256Text(canonicalJson({ whorl: VERSION, stages: TARGET_STAGES, setupKey: sk.key, settings, inputs }));
+    if (!opts.force && isUpToDate(run.outputDir, readTargetState(run.outputDir, t.folder), key)) {
+      cached.push(t.name);
+      emit({ type: 'target-done', t: now(), target: t.name, status: 'cached', seconds: 0 });
+      continue;
+    }
+    jobs.push({ target: t, setup, outputDir: run.outputDir, baseDir: run.baseDir, key, setupKey: sk.key, inputs, runStartMs });
+  }
+
+  const outcomes = new Map<string, TargetOutcome>();
+  const calibrations = new Map<string, SetupCalibration>();
+  const setupMs: Record<string, Record<string, number>> = {};
+  for (const setupName of [...new Set(jobs.map((j) => j.setup.name))]) {
+    const setup = run.setups[setupName]!;
+    const mine = jobs.filter((j) => j.setup.name === setupName);
+    emit({ type: 'setup-start', t: now(), setup: setupName, targets: mine.map((j) => j.target.name) });
+    const result = calibrateSetupCached(setup, run, setupKeyOf(setup).key, Boolean(opts.force), emit, now);
+    if (result.ok) {
+      calibrations.set(setupName, result.calibration);
+      if (result.ms) setupMs[setupName] = result.ms;
+      emit({ type: 'setup-done', t: now(), setup: setupName, status: result.ms ? 'ok' : 'cached' });
+    } else {
+      emit({ type: 'setup-done', t: now(), setup: setupName, status: 'failed', reason: result.reason });
+      for (const j of mine) {
+        const o = failedOutcome(j, result.code, `calibration of setup '${setupName}' failed: ${result.reason}`, {});
+        outcomes.set(j.target.name, o);
+        emit({ type: 'target-done', t: now(), target: j.target.name, status: 'failed', reason: o.entry.reason!, seconds: 0 });
+      }
+    }
+  }
+
+  const runnable = jobs.filter((j) => calibrations.has(j.setup.name));
+  const parallel = Math.min(opts.jobs, runnable.length);
+  if (parallel > 1 && workerScriptAvailable()) {
+    const pool = new TargetPool(parallel, emit);
+    const packed = new Map([...calibrations].map(([name, c]) => [name, pack(c)]));
+    try {
+      const results = await Promise.all(runnable.map((j) => pool.run(j, packed.get(j.setup.name))));
+      runnable.forEach((j, i) => outcomes.set(j.target.name, results[i]!));
+    } finally {
+      await pool.close();
+    }
+  } else {
+    for (const j of runnable) outcomes.set(j.target.name, executeTargetJob(j, calibrations.get(j.setup.name)!, emit));
+  }
+
+  const entries = run.targets.map((t): SummaryEntry => outcomes.get(t.name)?.entry ?? readTargetState<SummaryEntry>(run.outputDir, t.folder)?.entry ?? notRun(t));
+  const summary = buildSummary(VERSION, basename(run.manifestPath), entries);
+  const seconds = now();
+  writeRunProducts(run, summary, { outcomes, cached, setupMs, seconds, startedUtc: new Date(runStartMs).toISOString(), jobs: opts.jobs });
+  const failed = selected.filter((t) => outcomes.get(t.name)?.entry.status === 'failed').length;
+  const done: RunEvent = {
+    type: 'run-done',
+    t: seconds,
+    ok: selected.length - failed - cached.length,
+    failed,
+    cached: cached.length,
+    seconds,
+    summary: `${selected.length - failed} of ${selected.length} target(s) ok${failed ? `, ${failed} failed` : ''}${cached.length ? ` (${cached.length} unchanged)` : ''}; products in ${run.outputDir}`,
+  };
+  emit(done);
+  return { summary, outcomes, cached, setupMs, seconds };
+}
+
+/** The targets named by `--only` (by name or folder), in manifest order; unknown names are a user mistake. */
+export function selectTargets(targets: readonly ResolvedTarget[], only?: readonly string[]): ResolvedTarget[] {
+  if (!only || only.length === 0) return [...targets];
+  for (const name of only) {
+    if (!targets.some((t) => t.name === name || t.folder === name)) {
+      throw new InputError('reduce.unknown-target', `no target named '${name}' in the manifest`, { key: '--only' }, { expected: `one of ${targets.map((t) => t.name).join(', ')}` });
+    }
+  }
+  return targets.filter((t) => only.includes(t.name) || only.includes(t.folder));
+}
+
+function notRun(t: ResolvedTarget): SummaryEntry {
+  return { name: t.name, folder: t.folder, setup: t.setup, status: 'not-run', stages: [], products: [], numbers: {}, diagnostics: { info: 0, warning: 0, error: 0 } };
+}
+
+/** Create the output folders and remove temporary files a killed run left behind. */
+function prepareFolders(run: ResolvedRun): void {
+  mkdirSync(join(run.outputDir, STATE_DIR, 'targets'), { recursive: true });
+  mkdirSync(join(run.outputDir, STATE_DIR, 'calib'), { recursive: true });
+  for (const dir of [run.outputDir, join(run.outputDir, STATE_DIR, 'targets'), join(run.outputDir, STATE_DIR, 'calib')]) removePartialFiles(dir);
+  for (const s of Object.values(run.setups)) removePartialFiles(join(run.outputDir, 'calib', s.folder));
+  for (const t of run.targets) removePartialFiles(join(run.outputDir, t.folder));
+}
