@@ -69,9 +69,7 @@ export function normaliseFlat(
 ): NormalisedFlat {
   const n = width * height;
   const mask = exclude.slice();
-  const level = sampledMedian(combined);
-  const dark = settings.illuminationMinimum * level;
-  for (let i = 0; i < n; i++) if (!(combined[i]! >= dark)) mask[i] = mask[i]! | MASK_BITS.outsideData;
+  markUnlit(combined, width, height, settings.illuminationMinimum, mask);
   const model = new Float32Array(n);
   const unfitRows: number[] = [];
   const xs = new Float64Array(width);
@@ -148,4 +146,30 @@ function rowWeights(mask: Uint16Array, y: number, width: number, bits: number, w
     usable += weights[x]!;
   }
   return usable;
+}
+
+/**
+ * outsideData for whole rows (slit ends) and whole columns (ends of the lamp's range) whose median
+ * is below `fraction` of the median of all rows' (columns') medians; single dark pixels inside the
+ * lit area are left to the zeroFlat test.
+ */
+function markUnlit(combined: Float32Array, width: number, height: number, fraction: number, mask: Uint16Array): void {
+  const rows = new Float64Array(height);
+  const cols = new Float64Array(width);
+  const line = new Float64Array(Math.max(width, height));
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) line[x] = combined[y * width + x]!;
+    rows[y] = median(line.subarray(0, width));
+  }
+  for (let x = 0; x < width; x++) {
+    for (let y = 0; y < height; y++) line[y] = combined[y * width + x]!;
+    cols[x] = median(line.subarray(0, height));
+  }
+  const rowLimit = fraction * median(rows);
+  const colLimit = fraction * median(cols);
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      if (!(rows[y]! >= rowLimit) || !(cols[x]! >= colLimit)) mask[y * width + x] = mask[y * width + x]! | MASK_BITS.outsideData;
+    }
+  }
 }

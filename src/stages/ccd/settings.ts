@@ -46,7 +46,7 @@ export interface CcdSettings {
   flatKeepsIllumination: boolean;
   /** Normalised flat values below this are masked (zeroFlat) and not divided. Default 0.2 (common practice). */
   flatMinimum: number;
-  /** Pixels whose combined flat is below this fraction of the illuminated level are outsideData. Default 0.1 (common practice). */
+  /** Rows (slit ends) and columns whose median combined flat is below this fraction of the typical one are outsideData. Default 0.1 (common practice). */
   illuminationMinimum: number;
   /** A detector column is bad when its median departs from its neighbours' by this many robust sigmas. Default 10 (common practice). */
   badColumnSigma: number;
