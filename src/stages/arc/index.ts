@@ -1,2 +1,3 @@
 export * from './settings.js';
 export { solveWavelengths } from './solve.js';
+export { measureFlexure } from './flexure.js';

@@ -1,0 +1,130 @@
+/**
+ * Zero point of the wavelength scale in a science frame from night-sky lines: each usable sky
+ * line is fitted (one Gaussian and a linear continuum, src/kernels/gaussian-fit.ts) to the pixels
+ * of all sky rows around it, placed by the arc solution in wavelength; the shift is the
+ * error-weighted mean of (catalogue - measured), and lines that disagree beyond their errors
+ * inflate its error and raise a warning.
+ */
+import { DiagnosticLog } from '../../diagnostics.js';
+import { InputError } from '../../errors.js';
+import { fitGaussianLine } from '../../kernels/gaussian-fit.js';
+import { evalLegendre2D } from '../../kernels/legendre.js';
+import { SPEED_OF_LIGHT_KMS } from '../../physics/constants.js';
+import type { SkyLine } from '../../physics/catalogues.js';
+import type { CalibratedFrame, StageResult } from '../../products/frame.js';
+import type { FlexureMeasurement, WavelengthSolution } from '../../products/wavelength.js';
+import type { FlexureSettings } from './settings.js';
+import { skyRowMask } from './sky-rows.js';
+
+/** Sky lines closer than this many LSF sigmas to a neighbour above a tenth of their intensity are blends (common practice). */
+const BLEND_SIGMAS = 4;
+/** A fitted width outside this factor of the instrumental width is not a clean sky line (common practice). */
+const WIDTH_FACTOR = 2;
+
+interface Stack {
+  x: Float64Array;
+  y: Float64Array;
+  w: Float64Array;
+}
+
+/** Pixels of the sky rows whose wavelength lies within `half` Angstrom of `centre` (row wavelengths increase with x). */
+function stackAround(frame: CalibratedFrame, wave: Float64Array, sky: Uint8Array, centre: number, half: number): Stack {
+  const { width, height } = frame;
+  const xs: number[] = [];
+  const ys: number[] = [];
+  const ws: number[] = [];
+  for (let row = 0; row < height; row++) {
+    if (!sky[row]) continue;
+    const base = row * width;
+    let lo = 0;
+    let hi = width;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (wave[base + mid]! < centre - half) lo = mid + 1;
+      else hi = mid;
+    }
+    for (let x = lo; x < width && wave[base + x]! <= centre + half; x++) {
+      const i = base + x;
+      const v = frame.var[i]!;
+      if (frame.mask[i] !== 0 || !(v > 0)) continue;
+      xs.push(wave[i]!);
+      ys.push(frame.sci[i]!);
+      ws.push(1 / v);
+    }
+  }
+  return { x: Float64Array.from(xs), y: Float64Array.from(ys), w: Float64Array.from(ws) };
+}
+
+export function measureFlexure(science: CalibratedFrame, solution: WavelengthSolution, skyLines: SkyLine[], settings: FlexureSettings): StageResult<WavelengthSolution> {
+  if (science.width !== solution.width || science.height !== solution.height) {
+    throw new InputError('arc.size-mismatch', 'the science frame and the arc solution differ in size', {}, { expected: `${solution.width}x${solution.height}`, actual: `${science.width}x${science.height}` });
+  }
+  const log = new DiagnosticLog('arc');
+  const file = science.exposures[0]?.path;
+  const { width, height } = science;
+  const yMid = (height - 1) / 2;
+  const xMid = (width - 1) / 2;
+  const dispersion = evalLegendre2D(solution.model, xMid + 0.5, yMid) - evalLegendre2D(solution.model, xMid - 0.5, yMid);
+  const lambdaMid = evalLegendre2D(solution.model, xMid, yMid);
+  const sigmaA = evalLegendre2D(solution.lsfSigmaPx, xMid, yMid) * dispersion;
+  const half = settings.searchAngstrom + 4 * sigmaA;
+  const lo = evalLegendre2D(solution.model, 0, yMid) + half;
+  const hi = evalLegendre2D(solution.model, width - 1, yMid) - half;
+  const sorted = [...skyLines].sort((a, b) => a.wavelength - b.wavelength);
+  const candidates = sorted.filter((l, i) => {
+    if (l.wavelength < lo || l.wavelength > hi) return false;
+    return ![sorted[i - 1], sorted[i + 1]].some((m) => m && Math.abs(m.wavelength - l.wavelength) < BLEND_SIGMAS * sigmaA && m.intensity > 0.1 * l.intensity);
+  });
+  const sky = skyRowMask(science, settings.galaxyRowSigma);
+  const nSky = sky.reduce((a, b) => a + b, 0);
+  const lines: FlexureMeasurement['lines'] = [];
+  for (const line of candidates) {
+    const s = stackAround(science, solution.wave, sky, line.wavelength, half);
+    if (s.x.length < 8) continue;
+    let base = Infinity;
+    let peak = -Infinity;
+    for (let i = 0; i < s.y.length; i++) {
+      base = Math.min(base, s.y[i]!);
+      peak = Math.max(peak, s.y[i]!);
+    }
+    const fit = fitGaussianLine(s.x, s.y, s.w, { amplitude: Math.max(peak - base, 1e-6), centre: line.wavelength, sigma: sigmaA, c0: base }, {
+      centreRange: [line.wavelength - settings.searchAngstrom, line.wavelength + settings.searchAngstrom],
+      sigmaRange: [sigmaA / WIDTH_FACTOR, sigmaA * WIDTH_FACTOR],
+      scaleByChi2: true,
+    });
+    const snr = fit.amplitude / fit.errors.amplitude;
+    const used = fit.converged && !fit.atBound && snr >= settings.minSnr && Number.isFinite(fit.errors.centre) && fit.errors.centre > 0;
+    lines.push({ wavelength: line.wavelength, name: line.name, measured: fit.centre, error: fit.errors.centre, used });
+  }
+  const usable = lines.filter((l) => l.used);
+  let shift = 0;
+  let shiftErr = NaN;
+  if (usable.length === 0) {
+    log.warn('no-sky-lines', `no usable night-sky line (${candidates.length} in range, ${nSky} sky rows): flexure not corrected (shift 0)`, { place: file ? { file } : {} });
+  } else {
+    let sw = 0;
+    let swx = 0;
+    for (const l of usable) {
+      const w = 1 / (l.error * l.error);
+      sw += w;
+      swx += w * (l.wavelength - l.measured);
+    }
+    shift = swx / sw;
+    shiftErr = 1 / Math.sqrt(sw);
+    let chi2 = 0;
+    for (const l of usable) chi2 += ((l.wavelength - l.measured - shift) / l.error) ** 2;
+    const dof = usable.length - 1;
+    // common practice: more than 3 sigma above the chi-square mean dof (sd sqrt(2 dof))
+    if (dof > 0 && chi2 > dof + 3 * Math.sqrt(2 * dof)) {
+      shiftErr *= Math.sqrt(chi2 / dof);
+      log.warn('flexure-disagree', `the ${usable.length} sky lines disagree about the shift beyond their errors (chi2 ${chi2.toFixed(1)} for ${dof} dof); error scaled by sqrt(chi2/dof)`, { place: file ? { file } : {}, expected: `chi2 <= ${(dof + 3 * Math.sqrt(2 * dof)).toFixed(1)}`, actual: chi2.toFixed(1) });
+    }
+    const kms = (shift / lambdaMid) * SPEED_OF_LIGHT_KMS;
+    log.info('flexure', `sky-line shift ${shift.toFixed(4)} +- ${shiftErr.toFixed(4)} A (${kms.toFixed(2)} km/s, ${(shift / dispersion).toFixed(3)} px) from ${usable.length} lines in ${nSky} sky rows; applied`, { place: file ? { file } : {} });
+    if (Math.abs(shift) > 2 * Math.abs(dispersion)) log.warn('large-flexure', `the sky lines are ${(shift / dispersion).toFixed(2)} px off the arc solution: more than the usual 0.1-2 px of flexure (common practice); check that the arc belongs to this setup`, { place: file ? { file } : {} });
+  }
+  const wave = new Float64Array(solution.wave.length);
+  for (let i = 0; i < wave.length; i++) wave[i] = solution.wave[i]! + shift;
+  const flexure: FlexureMeasurement = { shiftAngstrom: shift, shiftErrAngstrom: shiftErr, shiftKms: (shift / lambdaMid) * SPEED_OF_LIGHT_KMS, lines };
+  return { product: { ...solution, wave, flexure }, diagnostics: log.items };
+}
