@@ -32,8 +32,8 @@ const dist = (a: Vec, b: Vec): number => Math.hypot(a[0] - b[0], a[1] - b[1], a[
  * target at `pointing` seen from `site`.
  * - barycentric: Wright & Eastman (2014, PASP 126, 838) eq. 28 without the Shapiro delay and the
  *   target's own motion: z_B = gamma (1 + beta.n) / (1 + Phi/c^2) - 1, with the observer's
- *   barycentric velocity beta c and the Newtonian potential Phi of the Sun, Earth and Moon at the
- *   observer (these terms are ~0.003 km/s).
+ *   barycentric velocity beta c and the Newtonian potential Phi = -sum GM/r (< 0) of the Sun,
+ *   Earth and Moon at the observer (together ~ +0.0045 km/s; Jupiter's 0.0006 m/s is left out).
  * - heliocentric: the classical projection of the observer's heliocentric velocity, beta.n c.
  */
 export function radialVelocityCorrection(time: Date, pointing: Pointing, site: Site, frame: 'barycentric' | 'heliocentric' = 'barycentric'): number {
@@ -53,8 +53,8 @@ export function radialVelocityCorrection(time: Date, pointing: Pointing, site: S
   const earthPos: Vec = [earth.x * auM, earth.y * auM, earth.z * auM];
   const moonGeo = GeoMoonState(time);
   const moon: Vec = [earthPos[0] + moonGeo.x * auM, earthPos[1] + moonGeo.y * auM, earthPos[2] + moonGeo.z * auM];
-  const potential = GM_SUN_M3_S2 / dist(obs, sun) + GM_EARTH_M3_S2 / dist(obs, earthPos) + GM_MOON_M3_S2 / dist(obs, moon);
+  const wellDepth = GM_SUN_M3_S2 / dist(obs, sun) + GM_EARTH_M3_S2 / dist(obs, earthPos) + GM_MOON_M3_S2 / dist(obs, moon);
   const gamma = 1 / Math.sqrt(1 - dot(beta, beta));
-  const zB = (gamma * (1 + dot(beta, n))) / (1 + potential / (C_M_S * C_M_S)) - 1;
+  const zB = (gamma * (1 + dot(beta, n))) / (1 - wellDepth / (C_M_S * C_M_S)) - 1;
   return zB * C;
 }

@@ -57,11 +57,15 @@ const lampCache = new Map<string, LampLine[]>();
 /** The built-in lines of the named lamps (element symbols, any letter case), merged and sorted by wavelength. */
 export function loadLampLines(lamps: string[]): LampLine[] {
   const all: LampLine[] = [];
-  for (const name of new Set(lamps)) {
+  const wanted = new Set<(typeof KNOWN_LAMPS)[number]>();
+  for (const name of lamps) {
     const known = KNOWN_LAMPS.find((k) => k.toLowerCase() === name.trim().toLowerCase());
     if (known === undefined) {
       throw new InputError('lamp.unknown', `no built-in line list for the lamp ${JSON.stringify(name)}`, { key: 'lamps' }, { expected: `one of ${KNOWN_LAMPS.join(', ')} (or a line-list file)`, actual: name });
     }
+    wanted.add(known);
+  }
+  for (const known of wanted) {
     let lines = lampCache.get(known);
     if (lines === undefined) {
       const path = `${CONFIG_DIR}lamps/${known}.txt`;

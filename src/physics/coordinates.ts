@@ -91,9 +91,14 @@ export function siteFromHeader(header: Header, place: ErrorPlace = {}): Site | u
   }
   if (lat < -90 || lat > 90) throw new InputError('header.out-of-range', 'OBSGEO-B is not a latitude', { ...place, key: 'OBSGEO-B' }, { expected: 'degrees in [-90, 90]', actual: String(lat) });
   if (height < -1000 || height > 100000) throw new InputError('header.out-of-range', 'OBSGEO-H is not a plausible height', { ...place, key: 'OBSGEO-H' }, { expected: 'metres in [-1000, 100000]', actual: String(height) });
-  // Longitudes are folded into (-180, 180].
-  const lonFolded = ((((lon + 180) % 360) + 360) % 360) - 180;
-  return { latitudeDeg: lat, longitudeDeg: lonFolded === -180 ? 180 : lonFolded, heightM: height };
+  return { latitudeDeg: lat, longitudeDeg: foldLongitude(lon), heightM: height };
+}
+
+/** A longitude folded into (-180, 180] deg; values already there are returned unchanged (no rounding). */
+function foldLongitude(lon: number): number {
+  if (lon > -180 && lon <= 180) return lon;
+  const folded = ((((lon + 180) % 360) + 360) % 360) - 180;
+  return folded === -180 ? 180 : folded;
 }
 
 const ISO_DATE_TIME = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2}):(\d{2}(?:\.\d*)?)Z?$/;
