@@ -139,8 +139,11 @@ export interface SymmetryFit {
   chi2Reduced: number;
   /** Points compared with the mirrored other side. */
   nCompared: number;
-  /** Error method: delete-one jackknife of the whole fit. */
-  errorMethod: 'jackknife';
+  /**
+   * Error method: parametric bootstrap (Gaussian noise of the stated errors added to every point,
+   * the fit repeated; seeded), scaled by sqrt(chi2Reduced) when that exceeds 1.
+   */
+  errorMethod: 'bootstrap';
   /** Starting row from the continuum peak (internal, fractional). */
   startRow: number;
 }

@@ -16,7 +16,7 @@ import { resolveInclination } from './inclination.js';
 import { foldLight } from './light.js';
 import { placePoints, recedingSense, usable } from './place.js';
 import { resolveGeometrySettings, type GeometryInput } from './settings.js';
-import { fitSymmetry, type PvSamples } from './symmetry.js';
+import { fitSymmetry, pvSamples } from './symmetry.js';
 
 /** The number of outermost curve points averaged into vOuter. */
 const OUTER_POINTS = 3;
@@ -46,11 +46,11 @@ export function buildRotationCurve(
 
   const good = velocities.points.filter((p) => usable(p, settings.rejectFlags)).sort((a, b) => a.yCentre - b.yCentre);
   if (good.length < 6) throw new StageError('geometry', 'too-few-points', `${good.length} usable velocity points; at least 6 are needed to fold a curve`);
-  const samples: PvSamples = {
-    y: Float64Array.from(good, (p) => p.yCentre),
-    v: Float64Array.from(good, (p) => p.vLos),
-    e: Float64Array.from(good, (p) => p.vLosErr),
-  };
+  const samples = pvSamples(
+    Float64Array.from(good, (p) => p.yCentre),
+    Float64Array.from(good, (p) => p.vLos),
+    Float64Array.from(good, (p) => p.vLosErr),
+  );
   let startRow = continuumPeakRow(lines.continuumProfile);
   if (startRow === null || startRow < samples.y[0]! || startRow > samples.y[samples.y.length - 1]!) {
     log.warn('no-continuum-peak', 'no continuum peak inside the velocity points: the centre search starts at their middle row');
@@ -101,7 +101,7 @@ export function buildRotationCurve(
       centreRowErr: sym.centreRowErr,
       centreSource: settings.centreRow !== undefined ? 'given' : 'fitted',
       vSysSource: settings.systemicVelocityKms !== undefined ? 'given' : 'fitted',
-      symmetry: { chi2Reduced: sym.chi2Reduced, nCompared: sym.nCompared, errorMethod: 'jackknife', startRow },
+      symmetry: { chi2Reduced: sym.chi2Reduced, nCompared: sym.nCompared, errorMethod: 'bootstrap', startRow },
       recedingSense: sense,
       geometry,
       pv,

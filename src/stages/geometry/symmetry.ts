@@ -4,15 +4,32 @@
  * -(v(c - s) - v_sys). For a trial centre c every point i is compared with the curve interpolated
  * at its mirror row 2c - y_i (from all other points): r_i = v_i + u(2c - y_i) - 2 v_sys, with
  * variance e_i^2 + var(u). v_sys minimises chi-square in closed form for each c; c is found by a
- * grid search refined by golden section. Errors: delete-one jackknife of the whole fit (the
- * residuals share interpolation nodes, so the chi-square curvature would not be a fair error).
+ * grid search refined by golden section. Errors: parametric bootstrap (each draw adds Gaussian
+ * noise of the stated errors to every point and re-finds the minimum; seeded, so deterministic),
+ * scaled up by sqrt(reduced chi-square) when the sides differ by more than the errors.
+ * Chi-square is bumpy in c on the scale of the row spacing (the mirror runs through noisy nodes),
+ * so its local curvature, linear propagation, or a delete-one jackknife (removing a node changes
+ * the interpolation) all misjudge the error; the bootstrap lets the minimum hop between bumps
+ * as the estimate itself does.
  */
+import { median } from '../../kernels/index.js';
+import { Rng } from '../../sim/random.js';
 
 /** Points of the curve sorted by row: internal row (fractional), v_los (km/s), error (km/s). */
 export interface PvSamples {
   y: Float64Array;
   v: Float64Array;
   e: Float64Array;
+  /** Half-width (rows) of the mirror's smoothing kernel; see pvSamples(). */
+  kernelRows: number;
+}
+
+/** Samples from sorted arrays, with the kernel width set from the median row spacing. */
+export function pvSamples(y: Float64Array, v: Float64Array, e: Float64Array): PvSamples {
+  const gaps = new Float64Array(Math.max(0, y.length - 1));
+  for (let k = 1; k < y.length; k++) gaps[k - 1] = y[k]! - y[k - 1]!;
+  const spacing = gaps.length > 0 ? median(gaps) : 1;
+  return { y, v, e, kernelRows: KERNEL_SPACINGS * (spacing > 0 ? spacing : 1) };
 }
 
 export interface SymmetryOptions {
@@ -37,10 +54,8 @@ export interface SymmetryResult {
 
 const GRID_STEP_ROWS = 0.05;
 const MIN_COMPARED = 6;
-/** Half-width (rows) of the second, narrow search and of the jackknife refits. */
+/** Half-width (rows) of the second, narrow search. */
 const NARROW_SEARCH_ROWS = 1;
-/** A point left out moves the centre by about its error / sqrt(n): the refits search this close (rows). */
-const JACKKNIFE_REACH_ROWS = 0.3;
 
 interface Fold {
   chi2: number;
@@ -48,64 +63,53 @@ interface Fold {
   n: number;
 }
 
-/** Next active index from k in direction dir (skipping `skip`), or -1. */
-function nextActive(active: Uint8Array, skip: number, k: number, dir: 1 | -1): number {
-  while (k >= 0 && k < active.length && (active[k] === 0 || k === skip)) k += dir;
-  return k >= 0 && k < active.length ? k : -1;
-}
+/** Half-width of the mirror's biweight kernel in median row spacings (about a Gaussian of sigma 0.9 spacing). */
+const KERNEL_SPACINGS = 2.5;
 
 /**
- * The curve at row m from the active points other than `skip`, by Catmull-Rom cubic Hermite
- * interpolation (C1, so chi-square is smooth in the centre and its minimum never sticks to a
- * node); out = [value, variance]. False outside the points.
+ * The curve at row m from the active points other than `skip`: a local linear fit with biweight
+ * kernel weights (1 - (x/h)^2)^2 times the error weights (smooth in m, and it averages down the node noise that
+ * would make chi-square bumpy); out = [value, variance]. False when m lies outside the points.
  */
 function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, out: Float64Array): boolean {
   const { y, v, e } = p;
+  const n = y.length;
+  if (!(m >= y[0]! && m <= y[n - 1]!)) return false;
+  const h = p.kernelRows;
+  const reach = h;
   let lo = 0;
-  let hi = y.length;
+  let hi = n;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
-    if (y[mid]! < m) lo = mid + 1;
+    if (y[mid]! < m - reach) lo = mid + 1;
     else hi = mid;
   }
-  const a = nextActive(active, skip, lo - 1, -1);
-  const b = nextActive(active, skip, lo, 1);
-  if (a < 0 || b < 0) return false;
-  const a0 = nextActive(active, skip, a - 1, -1);
-  const b1 = nextActive(active, skip, b + 1, 1);
-  const pa = a0 < 0 ? a : a0;
-  const pb = b1 < 0 ? b : b1;
-  const span = y[b]! - y[a]!;
-  if (!(span > 0)) {
-    out[0] = (v[a]! + v[b]!) / 2;
-    out[1] = (e[a]! ** 2 + e[b]! ** 2) / 4;
-    return true;
+  // Weighted sums of the local linear fit in x = y - m; the value at m is the intercept.
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  for (let k = lo; k < n && y[k]! <= m + reach; k++) {
+    if (active[k] === 0 || k === skip) continue;
+    const x = y[k]! - m;
+    const q = 1 - (x / h) ** 2;
+    const w = (q * q) / (e[k]! * e[k]!);
+    s0 += w;
+    s1 += w * x;
+    s2 += w * x * x;
   }
-  const t = (m - y[a]!) / span;
-  const t2 = t * t;
-  const t3 = t2 * t;
-  const h00 = 2 * t3 - 3 * t2 + 1;
-  const h10 = t3 - 2 * t2 + t;
-  const h01 = -2 * t3 + 3 * t2;
-  const h11 = t3 - t2;
-  // Tangents (v_b - v_pa)/(y_b - y_pa) and (v_pb - v_a)/(y_pb - y_a), written as weights on the four values.
-  const ka = (h10 * span) / (y[b]! - y[pa]!);
-  const kb = (h11 * span) / (y[pb]! - y[a]!);
-  // At the ends the outer point is the inner one: merge the weights so its variance counts once.
-  let wa = h00 - kb;
-  let wb = h01 + ka;
-  let wpa = -ka;
-  let wpb = kb;
-  if (pa === a) {
-    wa += wpa;
-    wpa = 0;
+  const det = s0 * s2 - s1 * s1;
+  if (!(s0 > 0) || !(det > 1e-12 * s0 * s2)) return false;
+  // Equivalent kernel: l_k = w_k (s2 - s1 x_k) / det.
+  let value = 0;
+  let variance = 0;
+  for (let k = lo; k < n && y[k]! <= m + reach; k++) {
+    if (active[k] === 0 || k === skip) continue;
+    const x = y[k]! - m;
+    const q = 1 - (x / h) ** 2;
+    const l = ((q * q) / (e[k]! * e[k]!)) * ((s2 - s1 * x) / det);
+    value += l * v[k]!;
+    variance += l * l * e[k]! * e[k]!;
   }
-  if (pb === b) {
-    wb += wpb;
-    wpb = 0;
-  }
-  const value = wpa * v[pa]! + wa * v[a]! + wb * v[b]! + wpb * v[pb]!;
-  const variance = (wpa * e[pa]!) ** 2 + (wa * e[a]!) ** 2 + (wb * e[b]!) ** 2 + (wpb * e[pb]!) ** 2;
   out[0] = value;
   out[1] = variance;
   return true;
@@ -215,50 +219,43 @@ function fitOnce(p: PvSamples, active: Uint8Array, opts: SymmetryOptions, scratc
   return searchAbout(p, active, coarse.centre, NARROW_SEARCH_ROWS, opts.fixedVSysKms, scratch);
 }
 
-/** A jackknife refit: same compared window as the full fit, golden section close to its centre. */
-function refit(p: PvSamples, active: Uint8Array, best: Best, fixedVSys: number | undefined, scratch: Float64Array): Best {
-  const { half } = searchWindow(p, best.windowCentre, best.searchRows);
-  if (best.searchRows === 0) return { ...best, fold: fold(p, active, best.centre, best.windowCentre, half, fixedVSys, scratch) };
-  const [lo, hi] = [best.centre - JACKKNIFE_REACH_ROWS, best.centre + JACKKNIFE_REACH_ROWS];
-  return golden(p, active, lo, hi, best.windowCentre, half, fixedVSys, scratch);
-}
+/** Bootstrap draws: the error of an error from 50 draws is about 10%. */
+const BOOTSTRAP_DRAWS = 50;
+const BOOTSTRAP_SEED = 20260;
+/** How far (rows) a bootstrap draw looks for its minimum: several times the centre errors met in tests. */
+const BOOTSTRAP_REACH_ROWS = 0.6;
 
-/** Fit the centre and v_sys (either may be fixed) with jackknife errors. */
-export function fitSymmetry(p: PvSamples, opts: SymmetryOptions): SymmetryResult | null {
-  const n = p.y.length;
+/** Fit the centre and v_sys (either may be fixed), with bootstrap errors. */
+export function fitSymmetry(samples: PvSamples, opts: SymmetryOptions): SymmetryResult | null {
+  const n = samples.y.length;
   const active = new Uint8Array(n).fill(1);
   const scratch = new Float64Array(2);
-  const best = fitOnce(p, active, opts, scratch);
+  const best = fitOnce(samples, active, opts, scratch);
   if (best.fold.n < MIN_COMPARED) return null;
   const fitsCentre = opts.fixedCentreRow === undefined;
-  // Each jackknife refit repeats the final search with one point left out; sums of deviations
-  // from the full fit keep the variance free of cancellation.
-  let sc = 0;
+  const { half } = searchWindow(samples, best.windowCentre, best.searchRows);
+  const drawn: PvSamples = { ...samples, v: new Float64Array(n) };
+  const rng = new Rng(BOOTSTRAP_SEED);
   let scc = 0;
-  let sv = 0;
   let svv = 0;
-  let m = 0;
-  for (let d = 0; d < n; d++) {
-    active[d] = 0;
-    const j = refit(p, active, best, opts.fixedVSysKms, scratch);
-    active[d] = 1;
-    if (!Number.isFinite(j.fold.vSys)) continue;
-    const dc = j.centre - best.centre;
-    const dv = j.fold.vSys - best.fold.vSys;
-    sc += dc;
-    scc += dc * dc;
-    sv += dv;
-    svv += dv * dv;
-    m++;
+  for (let b = 0; b < BOOTSTRAP_DRAWS; b++) {
+    for (let j = 0; j < n; j++) drawn.v[j] = samples.v[j]! + samples.e[j]! * rng.normal();
+    // Same compared window as the fit; the centre re-found close to the fitted one.
+    const again = fitsCentre
+      ? golden(drawn, active, best.centre - BOOTSTRAP_REACH_ROWS, best.centre + BOOTSTRAP_REACH_ROWS, best.windowCentre, half, opts.fixedVSysKms, scratch)
+      : { centre: best.centre, fold: fold(drawn, active, best.centre, best.windowCentre, half, opts.fixedVSysKms, scratch) };
+    scc += (again.centre - best.centre) ** 2;
+    svv += (again.fold.vSys - best.fold.vSys) ** 2;
   }
-  const jackVar = (s: number, ss: number): number => (m > 1 ? Math.max(0, ((m - 1) / m) * (ss - (s * s) / m)) : NaN);
   const nFree = (fitsCentre ? 1 : 0) + (opts.fixedVSysKms === undefined ? 1 : 0);
+  const chi2Reduced = best.fold.chi2 / Math.max(1, best.fold.n - nFree);
+  const birge = Math.max(1, Math.sqrt(chi2Reduced));
   return {
     centreRow: best.centre,
-    centreRowErr: fitsCentre ? Math.sqrt(jackVar(sc, scc)) : 0,
+    centreRowErr: fitsCentre ? birge * Math.sqrt(scc / BOOTSTRAP_DRAWS) : 0,
     vSysKms: best.fold.vSys,
-    vSysErrKms: opts.fixedVSysKms === undefined ? Math.sqrt(jackVar(sv, svv)) : 0,
-    chi2Reduced: best.fold.chi2 / Math.max(1, best.fold.n - nFree),
+    vSysErrKms: opts.fixedVSysKms === undefined ? birge * Math.sqrt(svv / BOOTSTRAP_DRAWS) : 0,
+    chi2Reduced,
     nCompared: best.fold.n,
     atSearchEdge: best.atEdge,
   };
