@@ -73,6 +73,10 @@ export interface SkyModel {
   skySpectrum: Float32Array;
   /** RMS of sky-subtracted sky rows divided by their noise, per x (near 1 is good). */
   residualNormRms: Float32Array;
+  /** Slit factor g(y) per internal row of the model sky(lambda, y) = g(y) B(lambda) (1 = flat). */
+  slitFactor: Float32Array;
+  /** Line-emission score per row used to find the galaxy (sum of noise sigmas above 3 over the first sky model). */
+  emissionProfile: Float64Array;
 }
 
 export interface LineTable {

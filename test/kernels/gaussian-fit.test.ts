@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { levenbergMarquardt as mlLevenbergMarquardt } from 'ml-levenberg-marquardt';
 import { describe, expect, it } from 'vitest';
 import { fitGaussianLine } from '../../src/kernels/gaussian-fit.js';
-import { seededNormal } from './seeded-normal.js';
+import { Rng } from '../../src/sim/random.js';
 
 type Named = Record<string, number>;
 interface SingleCase { name: string; kind: string; x: number[]; y: number[]; sigma: number[]; initial: Named; params: Named; errors: Named }
@@ -22,7 +22,8 @@ function centroidLimit(fwhmPx: number, snr: number): number {
 interface MonteCarlo { bias: number; scatter: number; pullStd: number; converged: number }
 
 function monteCarlo(seed: number, trials: number, snr: number, fwhmPx: number, fixedWidth: boolean): MonteCarlo {
-  const normal = seededNormal(seed);
+  const rng = new Rng(seed);
+  const normal = (): number => rng.normal();
   const n = 31;
   const sigma = fwhmPx / FWHM_PER_SIGMA;
   const amp = 1;

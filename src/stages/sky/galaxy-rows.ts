@@ -1,0 +1,115 @@
+/**
+ * Where along the slit the galaxy is: rows whose continuum (median over the row) stands above
+ * the sky level, or whose line emission (significant positive excess over a first sky model,
+ * continuum removed) stands above that of the other rows. The galaxy region is the run of such
+ * rows around the brightest one, allowing short gaps.
+ */
+import { madSigma, median, medianOfBuffer } from '../../kernels/robust.js';
+
+export interface SlitProfiles {
+  /** Median over the good pixels of each row (electrons per pixel). */
+  continuum: Float64Array;
+  /** Per row: sum over pixels of max(0, z - 3), z the noise-normalised excess over the sky model with the row median removed. */
+  emission: Float64Array;
+}
+
+/** Median of each row over pixels with good[i] set (NaN for a row without any). */
+export function rowMedians(width: number, height: number, values: Float32Array, good: Uint8Array, scratch: Float64Array): Float64Array {
+  const out = new Float64Array(height);
+  for (let y = 0; y < height; y++) {
+    let n = 0;
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      if (good[i]) scratch[n++] = values[i]!;
+    }
+    out[y] = medianOfBuffer(scratch, n);
+  }
+  return out;
+}
+
+/** Emission score per row from the residual image (data minus a first sky model). */
+export function emissionScore(width: number, height: number, residual: Float32Array, variance: Float32Array, good: Uint8Array, scratch: Float64Array): Float64Array {
+  const level = rowMedians(width, height, residual, good, scratch);
+  const out = new Float64Array(height);
+  for (let y = 0; y < height; y++) {
+    const base = level[y]!;
+    if (base !== base) continue;
+    let s = 0;
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      if (!good[i] || !(variance[i]! > 0)) continue;
+      const z = (residual[i]! - base) / Math.sqrt(variance[i]!);
+      if (z > 3) s += z - 3;
+    }
+    out[y] = s;
+  }
+  return out;
+}
+
+/**
+ * Rows standing out in a profile: above a robust baseline (a straight line in y fitted to the
+ * rows, dropping high ones iteratively) by more than nSigma robust sigmas and by at least
+ * `minExcess` (for scores that are exactly zero on most rows, where the robust sigma vanishes).
+ */
+export function rowsAbove(profile: Float64Array, nSigma: number, candidate: Uint8Array, minExcess = 0): Uint8Array {
+  const h = profile.length;
+  const keep = Uint8Array.from(candidate);
+  const resid = new Float64Array(h);
+  let a = 0;
+  let b = 0;
+  let sigma = 0;
+  for (let round = 0; round < 10; round++) {
+    [a, b] = lineFit(profile, keep);
+    for (let y = 0; y < h; y++) resid[y] = keep[y] ? profile[y]! - (a + b * y) : NaN;
+    sigma = madSigma(resid);
+    const centre = median(resid);
+    let changed = 0;
+    for (let y = 0; y < h; y++) {
+      if (keep[y] && profile[y]! - (a + b * y) - centre > 3 * sigma) {
+        keep[y] = 0;
+        changed++;
+      }
+    }
+    if (changed === 0) break;
+  }
+  const out = new Uint8Array(h);
+  const threshold = Math.max(nSigma * sigma, minExcess, 1e-12);
+  for (let y = 0; y < h; y++) if (candidate[y] && profile[y]! - (a + b * y) > threshold) out[y] = 1;
+  return out;
+}
+
+function lineFit(profile: Float64Array, keep: Uint8Array): [number, number] {
+  let n = 0;
+  let sy = 0;
+  let sx = 0;
+  let sxx = 0;
+  let sxy = 0;
+  for (let y = 0; y < profile.length; y++) {
+    const v = profile[y]!;
+    if (!keep[y] || v !== v) continue;
+    n++;
+    sx += y;
+    sy += v;
+    sxx += y * y;
+    sxy += y * v;
+  }
+  const det = n * sxx - sx * sx;
+  if (n < 2 || det === 0) return [n > 0 ? sy / n : 0, 0];
+  const b = (n * sxy - sx * sy) / det;
+  return [(sy - b * sx) / n, b];
+}
+
+/**
+ * The run of flagged rows around the row where `strength` peaks among flagged rows, bridging gaps
+ * of up to gapRows. Null when no row is flagged.
+ */
+export function galaxyRun(flagged: Uint8Array, strength: Float64Array, gapRows: number): [number, number] | null {
+  let peak = -1;
+  for (let y = 0; y < flagged.length; y++) if (flagged[y] && (peak < 0 || strength[y]! > strength[peak]!)) peak = y;
+  if (peak < 0) return null;
+  let lo = peak;
+  let hi = peak;
+  for (let y = peak - 1; y >= 0 && lo - y <= gapRows + 1; y--) if (flagged[y]) lo = y;
+  for (let y = peak + 1; y < flagged.length && y - hi <= gapRows + 1; y++) if (flagged[y]) hi = y;
+  return [lo, hi];
+}

@@ -1,0 +1,2 @@
+export { subtractSky } from './subtract.js';
+export { DEFAULT_SKY_SETTINGS, type SkySettings } from './settings.js';

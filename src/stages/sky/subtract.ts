@@ -1,0 +1,167 @@
+/**
+ * Stage sky: find the galaxy along the slit, fit sky(lambda, y) = g(y) B(lambda) to the
+ * galaxy-free rows at each pixel's own wavelength (following the tilt of the sky lines without
+ * resampling the data), subtract it everywhere and add the model's own variance to the frame's.
+ */
+import { DiagnosticLog } from '../../diagnostics.js';
+import { InputError, StageError } from '../../errors.js';
+import { median } from '../../kernels/robust.js';
+import { MASK_BITS, type CalibratedFrame, type StageResult } from '../../products/frame.js';
+import type { SkyModel } from '../../products/lines.js';
+import type { WavelengthSolution } from '../../products/wavelength.js';
+import { emissionScore, galaxyRun, rowMedians, rowsAbove } from './galaxy-rows.js';
+import type { SkySettings } from './settings.js';
+import { fitSkySpline, skyAt, type SkySpline } from './sky-spline.js';
+
+/** Mask bits that make a pixel unusable for the sky fit and the profiles. */
+/**
+ * Least emission score of a galaxy row: about one line with a 5-sigma peak three pixels wide
+ * (noise alone scores ~4e-4 per pixel). Common practice for a detection floor.
+ */
+const EMISSION_FLOOR = 3;
+
+const BAD = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
+
+export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution, settings: SkySettings): StageResult<{ frame: CalibratedFrame; sky: SkyModel }> {
+  const { width, height } = frame;
+  if (solution.width !== width || solution.height !== height) {
+    throw new StageError('sky', 'size-mismatch', `wavelength solution is ${solution.width} x ${solution.height}, frame is ${width} x ${height}`);
+  }
+  const log = new DiagnosticLog('sky');
+  const good = new Uint8Array(width * height);
+  for (let i = 0; i < good.length; i++) good[i] = (frame.mask[i]! & BAD) === 0 && frame.var[i]! > 0 && Number.isFinite(frame.sci[i]!) ? 1 : 0;
+  const scratch = new Float64Array(width);
+  const rowUsable = new Uint8Array(height);
+  for (let y = 0; y < height; y++) {
+    let n = 0;
+    for (let x = 0; x < width; x++) n += good[y * width + x]!;
+    rowUsable[y] = n >= width / 2 ? 1 : 0;
+  }
+
+  // 1. Continuum profile and a first guess at the sky rows.
+  const continuum = rowMedians(width, height, frame.sci, good, scratch);
+  const contRows = rowsAbove(continuum, settings.detectSigma, rowUsable);
+  const firstSky = selectRows(height, rowUsable, contRows, settings.edgeRows);
+  const first = fit(frame, solution, good, firstSky, 0, settings);
+  if (first === null) throw new StageError('sky', 'no-sky', 'no usable sky rows: the galaxy or masked pixels fill the slit');
+
+  // 2. Line emission over the first sky model, then the galaxy region.
+  const residual = new Float32Array(width * height);
+  const b = new Float64Array(4);
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      residual[i] = frame.sci[i]! - skyAt(first, solution.wave[i]!, y, b).value;
+    }
+  }
+  const emission = emissionScore(width, height, residual, frame.var, good, scratch);
+  const emRows = rowsAbove(emission, settings.detectSigma, rowUsable, EMISSION_FLOOR);
+  const flagged = new Uint8Array(height);
+  for (let y = 0; y < height; y++) flagged[y] = contRows[y]! | emRows[y]!;
+  const strength = new Float64Array(height);
+  const contLevel = median(continuum);
+  for (let y = 0; y < height; y++) strength[y] = (continuum[y]! - contLevel) + emission[y]!;
+  const found = galaxyRun(flagged, strength, settings.gapRows);
+  if (found === null) log.warn('no-galaxy', 'no galaxy light found along the slit; sky fitted from all rows', { expected: 'a row with continuum or emission above the sky' });
+  const galaxyRegion: [number, number] = found ?? [Math.floor(height / 2), Math.floor(height / 2)];
+
+  // 3. Sky rows: the user's, or those away from the galaxy and any other light.
+  let skyRows: Uint8Array;
+  if (settings.regions !== undefined) skyRows = userRows(settings.regions, height);
+  else {
+    const blocked = Uint8Array.from(flagged);
+    if (found !== null) for (let y = Math.max(0, galaxyRegion[0] - settings.marginRows); y <= Math.min(height - 1, galaxyRegion[1] + settings.marginRows); y++) blocked[y] = 1;
+    skyRows = selectRows(height, rowUsable, blocked, settings.edgeRows);
+  }
+  const nSky = skyRows.reduce((s, v) => s + v, 0);
+  if (nSky < settings.minSkyRows) {
+    log.warn('little-sky', `only ${nSky} rows of sky to fit the sky model from`, { expected: `at least ${settings.minSkyRows}`, actual: nSky });
+  }
+  const below = skyRows.subarray(0, galaxyRegion[0]).some((v) => v === 1);
+  const above = skyRows.subarray(galaxyRegion[1] + 1).some((v) => v === 1);
+  if (settings.order > 0 && nSky > 0 && !(below && above)) {
+    log.warn('one-sided-sky', `sky rows lie on one side of the galaxy only: the slit factor (order ${settings.order}) is extrapolated across it`, { place: { row: galaxyRegion[0], rowEnd: galaxyRegion[1] } });
+  }
+  const model = fit(frame, solution, good, skyRows, settings.order, settings);
+  if (model === null) throw new StageError('sky', 'no-sky', `too few good sky pixels to fit the sky (${nSky} sky rows)`);
+
+  // 4. Subtract; variance grows by the model's own.
+  const sci = new Float32Array(width * height);
+  const variance = new Float32Array(width * height);
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      const s = skyAt(model, solution.wave[i]!, y, b);
+      sci[i] = frame.sci[i]! - s.value;
+      variance[i] = frame.var[i]! + s.variance;
+    }
+  }
+  const residualNormRms = normalisedResidual(width, height, sci, variance, good, skyRows);
+  const centreRow = Math.round((galaxyRegion[0] + galaxyRegion[1]) / 2);
+  const skySpectrum = new Float32Array(width);
+  for (let x = 0; x < width; x++) skySpectrum[x] = skyAt(model, solution.wave[centreRow * width + x]!, centreRow, b).value;
+  const rms = median(residualNormRms);
+  if (rms > 1.5) log.warn('high-residual', `sky rows scatter ${rms.toFixed(2)} times their noise after subtraction`, { expected: 'about 1', actual: Number(rms.toFixed(3)) });
+  log.info('fitted', `sky from ${nSky} rows (${model.used} pixels), galaxy in rows ${galaxyRegion[0]}-${galaxyRegion[1]}`, { place: { row: galaxyRegion[0], rowEnd: galaxyRegion[1] } });
+
+  const sky: SkyModel = {
+    skyRegions: ranges(skyRows),
+    galaxyRegion,
+    skySpectrum,
+    residualNormRms,
+    slitFactor: Float32Array.from(model.slit),
+    emissionProfile: emission,
+  };
+  return { product: { frame: { ...frame, sci, var: variance }, sky }, diagnostics: log.items };
+}
+
+function fit(frame: CalibratedFrame, solution: WavelengthSolution, good: Uint8Array, rows: Uint8Array, order: number, settings: SkySettings): SkySpline | null {
+  const use = new Uint8Array(good.length);
+  for (let y = 0; y < frame.height; y++) if (rows[y]) for (let x = 0, i = y * frame.width; x < frame.width; x++, i++) use[i] = good[i]!;
+  return fitSkySpline({ width: frame.width, height: frame.height, sci: frame.sci, var: frame.var, wave: solution.wave, use }, order, settings.knotSpacingPx, settings.clipSigma, settings.clipIterations);
+}
+
+function selectRows(height: number, usable: Uint8Array, blocked: Uint8Array, edgeRows: number): Uint8Array {
+  const out = new Uint8Array(height);
+  for (let y = edgeRows; y < height - edgeRows; y++) out[y] = usable[y]! && !blocked[y] ? 1 : 0;
+  return out;
+}
+
+function userRows(regions: [number, number][], height: number): Uint8Array {
+  const out = new Uint8Array(height);
+  regions.forEach(([a, b], k) => {
+    if (!Number.isInteger(a) || !Number.isInteger(b) || a < 0 || b >= height || a > b) {
+      throw new InputError('sky.bad-region', `sky region ${k} is [${a}, ${b}]`, { key: `sky.regions[${k}]` }, { expected: `integer rows with 0 <= first <= last <= ${height - 1}`, actual: `[${a}, ${b}]` });
+    }
+    out.fill(1, a, b + 1);
+  });
+  return out;
+}
+
+/** Inclusive ranges of the set rows. */
+function ranges(rows: Uint8Array): [number, number][] {
+  const out: [number, number][] = [];
+  for (let y = 0; y < rows.length; y++) {
+    if (!rows[y]) continue;
+    const start = y;
+    while (y + 1 < rows.length && rows[y + 1]) y++;
+    out.push([start, y]);
+  }
+  return out;
+}
+
+/** Per column: RMS over the good sky pixels of residual / sqrt(variance). */
+function normalisedResidual(width: number, height: number, sci: Float32Array, variance: Float32Array, good: Uint8Array, skyRows: Uint8Array): Float32Array {
+  const sum = new Float64Array(width);
+  const count = new Uint32Array(width);
+  for (let y = 0; y < height; y++) {
+    if (!skyRows[y]) continue;
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      if (!good[i]) continue;
+      sum[x] += (sci[i]! * sci[i]!) / variance[i]!;
+      count[x]++;
+    }
+  }
+  return Float32Array.from(sum, (s, x) => (count[x]! > 0 ? Math.sqrt(s / count[x]!) : NaN));
+}

@@ -1,0 +1,112 @@
+import { describe, expect, it } from 'vitest';
+import { InputError } from '../../../src/errors.js';
+import { MASK_BITS } from '../../../src/products/frame.js';
+import { DEFAULT_SKY_SETTINGS, subtractSky } from '../../../src/stages/sky/index.js';
+import { makeSyntheticFrame } from './synthetic-frame.js';
+
+// Checks by injection and recovery: frames made with a known sky, galaxy and noise
+// (Gaussian with the Poisson + read-noise variance); the subtracted frame must leave the galaxy
+// within the noise the stage quotes.
+
+function pulls(sub: Float32Array, variance: Float32Array, truth: Float32Array, width: number, rows: [number, number]): { mean: number; std: number } {
+  let s = 0;
+  let s2 = 0;
+  let n = 0;
+  for (let y = rows[0]; y <= rows[1]; y++) {
+    for (let x = 0; x < width; x++) {
+      const i = y * width + x;
+      const p = (sub[i]! - truth[i]!) / Math.sqrt(variance[i]!);
+      s += p;
+      s2 += p * p;
+      n++;
+    }
+  }
+  const mean = s / n;
+  return { mean, std: Math.sqrt(s2 / n - mean * mean) };
+}
+
+describe('subtractSky', () => {
+  const synthetic = makeSyntheticFrame({ seed: 3 });
+  const { frame, solution, galaxy } = synthetic;
+  const result = subtractSky(frame, solution, DEFAULT_SKY_SETTINGS);
+  const out = result.product.frame;
+
+  it('finds the galaxy around its true centre row and keeps it out of the sky rows', () => {
+    const [lo, hi] = result.product.sky.galaxyRegion;
+    expect(lo).toBeLessThan(synthetic.options.centreRow - 20);
+    expect(hi).toBeGreaterThan(synthetic.options.centreRow + 20);
+    for (const [a, b] of result.product.sky.skyRegions) expect(b < lo || a > hi).toBe(true);
+  });
+
+  it('leaves the galaxy rows equal to the true galaxy within the quoted noise, across tilted sky lines (pulls of unit width)', () => {
+    const p = pulls(out.sci, out.var, galaxy, frame.width, [40, 80]);
+    expect(Math.abs(p.mean)).toBeLessThan(0.03);
+    expect(p.std).toBeGreaterThan(0.97);
+    expect(p.std).toBeLessThan(1.03);
+  });
+
+  for (const tiltPx of [0, 0.4, 4]) {
+    it(`leaves no sky-line residual beyond the quoted errors in 31-row column sums, tilt ${tiltPx} px`, () => {
+      // The model error is common to all rows of a column: sum it coherently, the data noise in quadrature.
+      const s = makeSyntheticFrame({ seed: 5, tiltPx });
+      const r = subtractSky(s.frame, s.solution, DEFAULT_SKY_SETTINGS);
+      const W = s.frame.width;
+      let sumsq = 0;
+      for (let x = 5; x < W - 5; x++) {
+        let m = 0;
+        let v = 0;
+        let sm = 0;
+        for (let y = 45; y <= 75; y++) {
+          const i = y * W + x;
+          m += r.product.frame.sci[i]! - s.galaxy[i]!;
+          v += s.frame.var[i]!;
+          sm += Math.sqrt(r.product.frame.var[i]! - s.frame.var[i]!);
+        }
+        sumsq += (m * m) / (v + sm * sm);
+      }
+      const zRms = Math.sqrt(sumsq / (W - 10));
+      expect(zRms).toBeGreaterThan(0.85);
+      expect(zRms).toBeLessThan(1.12);
+    });
+  }
+
+  it('leaves sky rows at their noise level per column (normalised residual RMS near 1)', () => {
+    const rms = result.product.sky.residualNormRms;
+    let worst = 0;
+    for (let x = 5; x < frame.width - 5; x++) worst = Math.max(worst, rms[x]!);
+    expect(worst).toBeLessThan(1.5);
+  });
+
+  it('recovers the slit gradient of the sky', () => {
+    const g = result.product.sky.slitFactor;
+    const slope = (g[frame.height - 10]! - g[10]!) / (frame.height - 20);
+    expect(slope * frame.height).toBeCloseTo(synthetic.options.skyGradient, 2);
+  });
+
+  it('adds the sky model variance to the frame variance', () => {
+    for (const i of [100, 5000, 30000]) expect(out.var[i]!).toBeGreaterThan(frame.var[i]!);
+  });
+
+  it('uses the sky rows a user gives and warns when they are few', () => {
+    const r = subtractSky(frame, solution, { ...DEFAULT_SKY_SETTINGS, regions: [[5, 14]] });
+    expect(r.product.sky.skyRegions).toEqual([[5, 14]]);
+    expect(r.diagnostics.map((d) => d.rule)).toContain('sky.little-sky');
+    expect(r.diagnostics.map((d) => d.rule)).toContain('sky.one-sided-sky');
+  });
+
+  it('refuses a sky region outside the frame with an InputError naming it', () => {
+    expect(() => subtractSky(frame, solution, { ...DEFAULT_SKY_SETTINGS, regions: [[100, 130]] })).toThrow(InputError);
+  });
+
+  it('ignores masked pixels (cosmic rays) in the sky fit', () => {
+    const hit = makeSyntheticFrame({ seed: 3 });
+    for (let y = 10; y < 30; y++) {
+      const i = y * hit.frame.width + 200;
+      hit.frame.sci[i] = hit.frame.sci[i]! + 5e4;
+      hit.frame.mask[i] = MASK_BITS.cosmicRay;
+    }
+    const r = subtractSky(hit.frame, hit.solution, DEFAULT_SKY_SETTINGS);
+    const i = 60 * hit.frame.width + 200;
+    expect(Math.abs(r.product.frame.sci[i]! - out.sci[i]!)).toBeLessThan(0.5 * Math.sqrt(out.var[i]!));
+  });
+});
