@@ -1,6 +1,5 @@
 /**
- * The detector: slit illumination and pixel sensitivity (multiplying the light), the mapping from
- * the internal orientation to the raw frame, hot columns, shot and read noise, cosmic rays, bias
+ * The detector: slit illumination and pixel sensitivity (multiplying the light), hot columns, shot and read noise, cosmic rays, bias
  * with its row pattern, the overscan strip, digitisation and saturation.
  */
 import type { Orientation } from '../products/frame.js';
@@ -38,24 +37,6 @@ export function makeDetectorMaps(rng: Rng, det: DetectorTruth, W: number, H: num
 /** Trimmed raw size for an internal W x H frame. */
 export function trimmedSize(o: Orientation, W: number, H: number): { width: number; height: number } {
   return o.transpose ? { width: H, height: W } : { width: W, height: H };
-}
-
-/**
- * Internal image (W x H) -> trimmed raw image, applying the inverse of the Orientation mapping of
- * src/products/frame.ts: internal (x, y) comes from T(x', y) with x' = flipX ? W-1-x : x, and
- * T(x', y) = transpose ? R(y, x') : R(x', y).
- */
-export function internalToRaw(o: Orientation, W: number, H: number, internal: Float32Array, raw: Float32Array): Float32Array {
-  const rawWidth = o.transpose ? H : W;
-  for (let y = 0; y < H; y++) {
-    for (let x = 0; x < W; x++) {
-      const tx = o.flipX ? W - 1 - x : x;
-      const rx = o.transpose ? y : tx;
-      const ry = o.transpose ? tx : y;
-      raw[ry * rawWidth + rx] = internal[y * W + x]!;
-    }
-  }
-  return raw;
 }
 
 /** Add the hot-column excess (electrons) of an exposure to a trimmed raw image. */

@@ -77,20 +77,23 @@ export function renderSky(setup: SetupTruth, size: SimSize, exptimeS: number, ou
   addUniformLines(setup, lines, out);
 }
 
-/**
- * The galaxy in one exposure: stellar continuum and the emission lines, each row at its true
- * v_los. Observed wavelength: (1 + z_obs) = (1 + z_bary) / (1 + v_B / c), the barycentric
- * correction combined multiplicatively (Wright & Eastman 2014, PASP 126, 838).
- */
-export function renderGalaxy(setup: SetupTruth, size: SimSize, target: TargetTruth, exposure: ExposureTruth, out: Float32Array): void {
+/** The galaxy's stellar continuum in an exposure of `exptimeS`. */
+export function renderStars(setup: SetupTruth, size: SimSize, target: TargetTruth, exptimeS: number, out: Float32Array): void {
   const H = setup.internalHeight;
-  const spec = SIZES[size];
-  const t = exposure.exptimeS;
-  const continuumRows = new Float64Array(H);
-  for (let s = 0; s < H; s++) continuumRows[s] = t * continuumRate(target, s);
-  const perAngstrom = 1 / spec.dispersionAngstromPerPx;
-  addContinuum(setup, (l) => perAngstrom * (1 - 0.15 * (l - 6650) / 1000), continuumRows, out);
+  const rows = new Float64Array(H);
+  for (let s = 0; s < H; s++) rows[s] = exptimeS * continuumRate(target, s);
+  const perAngstrom = 1 / SIZES[size].dispersionAngstromPerPx;
+  addContinuum(setup, (l) => perAngstrom * (1 - 0.15 * (l - 6650) / 1000), rows, out);
+}
 
+/**
+ * The galaxy's emission lines in one exposure, each row at its true v_los. Observed wavelength:
+ * (1 + z_obs) = (1 + z_bary) / (1 + v_B / c), the barycentric correction combined
+ * multiplicatively (Wright & Eastman 2014, PASP 126, 838).
+ */
+export function renderGas(setup: SetupTruth, target: TargetTruth, exposure: ExposureTruth, out: Float32Array): void {
+  const H = setup.internalHeight;
+  const t = exposure.exptimeS;
   const factor = new Float64Array(H);
   const vB = exposure.barycentricCorrectionKms;
   for (let s = 0; s < H; s++) factor[s] = (1 + target.vLosKms[s]! / SPEED_OF_LIGHT_KMS) / (1 + vB / SPEED_OF_LIGHT_KMS);

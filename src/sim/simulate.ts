@@ -4,12 +4,14 @@
  */
 import type { Header } from '../fits/header.js';
 import { randomCosmicRays } from './cosmic.js';
-import { addHotColumns, digitise, internalToRaw, makeDetectorMaps, trimmedSize } from './detector.js';
+import { toRaw } from '../products/orientation.js';
+import { addHotColumns, digitise, makeDetectorMaps, trimmedSize } from './detector.js';
 import { frameHeader } from './headers.js';
 import { runManifestYaml } from './manifest.js';
 import { resolveSimOptions, type SimOptions } from './options.js';
 import { Rng, streamSeed } from './random.js';
-import { arcLines, lampLineFactors, renderArc, renderFlat, renderGalaxy, renderSky } from './render.js';
+import type { UniformLine } from './light.js';
+import { arcLines, lampLineFactors, renderArc, renderFlat, renderGas, renderSky, renderStars } from './render.js';
 import { GALAXIES, INSTRUMENT, SITE, TELESCOPE } from './scenario.js';
 import { dateObsText, planNight, type FrameKind, type FramePlan, type TargetPlan } from './schedule.js';
 import { SETUP_NAMES, makeDetector, makeSetup } from './setups.js';
@@ -84,8 +86,7 @@ export function simulateRun(options?: SimOptions): SimulatedRun {
   const arcLinesBySetup = new Map(setups.map((s) => [s.name, arcLines(s, lampFactors)]));
   const shared = new Map(targets.map((t, i) => [t.name, sharedHitPixels(new Rng(streamSeed(opts.seed, `shared-hits-${i}`)), trimmed.width, trimmed.height)]));
 
-  const light = new Float32Array(W * H);
-  const raw = new Float32Array(trimmed.width * trimmed.height);
+  const lights = new LightCache(opts.size, maps.response, arcLinesBySetup);
   const scratch = new Float32Array(trimmed.width * trimmed.height);
   const expected = opts.expected ? new Map<string, Float32Array>() : undefined;
   const simFrames: SimFrame[] = [];
@@ -96,12 +97,11 @@ export function simulateRun(options?: SimOptions): SimulatedRun {
     const target = plan.target === undefined ? undefined : targets[plan.target];
     if (target) pointing = { ra: target.ra, dec: target.dec };
     const rng = new Rng(streamSeed(opts.seed, `frame:${plan.name}`));
-    light.fill(0);
-    renderLight(plan, setup, target, opts.size, arcLinesBySetup.get(setup.name)!, light);
-    for (let i = 0; i < light.length; i++) light[i] *= maps.response[i]!;
-    internalToRaw(setup.orientation, W, H, light, raw);
+    // Lamps and sky vary a little from exposure to exposure (common practice: about a percent).
+    const lampScale = plan.kind === 'flat' || plan.kind === 'arc' ? 1 + 0.01 * rng.normal() : 1;
+    const raw = toRaw(lights.frame(plan, setup, target, lampScale), W, H, setup.orientation).data;
     addHotColumns(detector, plan.exptimeS, trimmed.width, trimmed.height, raw);
-    if (expected) expected.set(plan.name, raw.slice());
+    if (expected) expected.set(plan.name, raw);
 
     const cosmic = randomCosmicRays(rng, trimmed.width, trimmed.height, plan.exptimeS);
     if (target) {
@@ -125,11 +125,40 @@ export function simulateRun(options?: SimOptions): SimulatedRun {
   return run;
 }
 
-function renderLight(plan: FramePlan, setup: SetupTruth, target: TargetTruth | undefined, size: RunTruth['size'], arc: ReturnType<typeof arcLines>, out: Float32Array): void {
-  if (plan.kind === 'flat') renderFlat(setup, out);
-  else if (plan.kind === 'arc') renderArc(setup, arc, out);
-  else if (plan.kind === 'science' && target) {
-    renderSky(setup, size, plan.exptimeS, out);
-    renderGalaxy(setup, size, target, target.exposures.find((e) => e.frame === plan.name)!, out);
+/**
+ * The expected electrons of each frame in internal orientation, response applied. What is the
+ * same for several frames (a lamp, the sky and stellar continuum of a target) is rendered once.
+ */
+class LightCache {
+  private readonly cache = new Map<string, Float32Array>();
+  constructor(
+    private readonly size: RunTruth['size'],
+    private readonly response: Float32Array,
+    private readonly arcLines: Map<string, UniformLine[]>,
+  ) {}
+
+  frame(plan: FramePlan, setup: SetupTruth, target: TargetTruth | undefined, scale: number): Float32Array {
+    const n = this.response.length;
+    const out = new Float32Array(n);
+    if (plan.kind === 'bias') return out;
+    const key = `${plan.kind}:${setup.name}:${target?.name ?? ''}:${plan.exptimeS}`;
+    let base = this.cache.get(key);
+    if (!base) {
+      base = new Float32Array(n);
+      if (plan.kind === 'flat') renderFlat(setup, base);
+      else if (plan.kind === 'arc') renderArc(setup, this.arcLines.get(setup.name)!, base);
+      else if (target) {
+        renderSky(setup, this.size, plan.exptimeS, base);
+        renderStars(setup, this.size, target, plan.exptimeS, base);
+      }
+      this.cache.set(key, base);
+    }
+    if (plan.kind === 'science' && target) {
+      renderGas(setup, target, target.exposures.find((e) => e.frame === plan.name)!, out);
+      for (let i = 0; i < n; i++) out[i] = (out[i]! + base[i]!) * this.response[i]!;
+    } else {
+      for (let i = 0; i < n; i++) out[i] = scale * base[i]! * this.response[i]!;
+    }
+    return out;
   }
 }
