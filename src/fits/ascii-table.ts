@@ -15,9 +15,12 @@ interface AsciiColumn extends TableColumn {
   nullText?: string;
 }
 
-export function readAsciiTable(header: Header, bytes: Uint8Array, dataOffset: number, place: ErrorPlace): TableData {
+export function readAsciiTable(header: Header, bytes: Uint8Array, dataOffset: number, dataLength: number, place: ErrorPlace): TableData {
   const rowBytes = header.getNumber('NAXIS1') ?? 0;
   const rows = header.getNumber('NAXIS2') ?? 0;
+  if (rowBytes * rows > dataLength) {
+    throw new InputError('fits.bad-keyword', 'data unit is smaller than NAXIS1 x NAXIS2', { ...place, key: 'GCOUNT' }, { expected: `${rowBytes * rows} bytes`, actual: `${dataLength}` });
+  }
   const fields = header.getNumber('TFIELDS') ?? 0;
   const cols: AsciiColumn[] = [];
   for (let n = 1; n <= fields; n++) {

@@ -106,6 +106,9 @@ export function readImage(file: FitsFile, index: number, options: ReadImageOptio
   for (let i = 1; i <= (hdu.header.getNumber('NAXIS') ?? 0); i++) axes.push(hdu.header.getNumber(`NAXIS${i}`)!);
   if (axes.length === 0) throw new InputError('fits.no-image-data', 'HDU has no data (NAXIS = 0)', { ...place, key: 'NAXIS' }, { expected: 'NAXIS >= 1' });
   const n = axes.reduce((a, b) => a * b, 1);
+  if (n * (Math.abs(bitpix) / 8) > hdu.dataLength) {
+    throw new InputError('fits.bad-keyword', 'data unit is smaller than the image axes need', { ...place, key: 'GCOUNT' }, { expected: `${n * (Math.abs(bitpix) / 8)} bytes`, actual: `${hdu.dataLength} bytes (GCOUNT x (PCOUNT + NAXIS1 x ...))` });
+  }
   const out = outputFor(bitpix, n, options.float32 ?? false);
   const { zero, scale, blank } = scalingOf(hdu.header, bitpix);
   const counts = decodeStored(file.bytes, hdu.dataOffset, bitpix, out, zero, scale, blank);

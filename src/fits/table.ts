@@ -9,7 +9,7 @@ import type { FitsFile, TableColumn, TableData } from './types.js';
 export function readTable(file: FitsFile, index: number): TableData {
   const hdu = hduAt(file, index);
   const place = { file: file.source, hdu: index };
-  if (hdu.kind === 'table') return readAsciiTable(hdu.header, file.bytes, hdu.dataOffset, place);
+  if (hdu.kind === 'table') return readAsciiTable(hdu.header, file.bytes, hdu.dataOffset, hdu.dataLength, place);
   if (hdu.kind !== 'bintable') {
     throw new InputError('fits.not-table', 'HDU is not a table', place, { expected: 'a BINTABLE or TABLE extension', actual: hdu.kind });
   }

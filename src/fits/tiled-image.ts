@@ -65,7 +65,11 @@ export function readTiledImage(file: FitsFile, hdu: Hdu, float32: boolean): Imag
   const cmp = (th.getString('ZCMPTYPE') ?? '').trim().toUpperCase();
   const codec = TILE_CODECS[cmp];
   if (!codec) throw new InputError('fits.unsupported', `tile compression ${cmp} is not supported`, { ...place, key: 'ZCMPTYPE' }, { expected: 'RICE_1, GZIP_1, GZIP_2 or NOCOMPRESS', actual: cmp });
-  const tile = axes.map((len, d) => Math.min(len, Math.max(1, th.getNumber(`ZTILE${d + 1}`) ?? (d === 0 ? len : 1))));
+  const tile = axes.map((len, d) => {
+    const t = th.getNumber(`ZTILE${d + 1}`) ?? (d === 0 ? len : 1);
+    if (!Number.isInteger(t) || t < 1) throw new InputError('fits.bad-tile', `ZTILE${d + 1} is invalid`, { ...place, key: `ZTILE${d + 1}` }, { expected: 'a positive integer', actual: String(t) });
+    return Math.min(len, t);
+  });
   const grid = axes.map((len, d) => Math.ceil(len / tile[d]!));
   const tiles = grid.reduce((a, b) => a * b, 1);
   if (layout.rows !== tiles) throw new InputError('fits.bad-tile', 'number of table rows does not match the tile grid', { ...place, key: 'NAXIS2' }, { expected: `${tiles} rows`, actual: String(layout.rows) });
@@ -80,6 +84,7 @@ export function readTiledImage(file: FitsFile, hdu: Hdu, float32: boolean): Imag
     blockSize: zParam(th, 'BLOCKSIZE') ?? 32,
     bytePix: (zParam(th, 'BYTEPIX') ?? Math.min(size, 4)) as 1 | 2 | 4,
   };
+  if (!Number.isInteger(params.blockSize) || params.blockSize < 1) fail(`BLOCKSIZE ${params.blockSize} is not a positive integer`);
   if (codec === 'RICE_1' && (lossless || ![1, 2, 4].includes(params.bytePix))) fail(`RICE_1 cannot hold ${lossless ? 'unquantised floats' : `${params.bytePix}-byte values`}`);
   const data = descriptorColumn(layout, 'COMPRESSED_DATA', place);
   const gzipData = findColumn(layout, 'GZIP_COMPRESSED_DATA');
