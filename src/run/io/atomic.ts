@@ -1,10 +1,11 @@
 /**
  * Products are written completely or not at all: each goes to a temporary file in the same
- * folder (same file system, so rename is atomic on POSIX) and is renamed into place after its
- * data are flushed. A run killed at any moment leaves at most `.*.partial` files, which the next
- * run removes.
+ * folder (same file system, so rename is atomic on POSIX) and is renamed into place once it is
+ * whole. A run killed at any moment leaves at most `.*.partial` files, which the next run removes.
+ * No fsync: a killed process loses nothing the kernel already holds, and fsync per product cost
+ * seconds per run here; only a power cut could leave a renamed file short.
  */
-import { closeSync, fsyncSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, writeSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, writeSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 
 const PARTIAL = /^\..+\.partial-\d+-\d+$/;
@@ -20,7 +21,6 @@ export function writeFileAtomic(path: string, data: string | Uint8Array): void {
     const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
     let off = 0;
     while (off < bytes.length) off += writeSync(fd, bytes, off, bytes.length - off);
-    fsyncSync(fd);
   } catch (e) {
     closeSync(fd);
     rmSync(tmp, { force: true });

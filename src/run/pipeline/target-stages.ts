@@ -7,6 +7,9 @@ import type { CalibratedFrame } from '../../products/frame.js';
 import { flipFrameX } from '../../products/orientation.js';
 import type { SkyModel } from '../../products/lines.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
+import { skyLines } from '../../physics/catalogues.js';
+import { measureFlexure } from '../../stages/arc/flexure.js';
+import { DEFAULT_FLEXURE_SETTINGS, type FlexureSettings } from '../../stages/arc/settings.js';
 import { calibrateScience } from '../../stages/ccd/calibrate-science.js';
 import type { SkySettings } from '../../stages/sky/settings.js';
 import { subtractSky } from '../../stages/sky/subtract.js';
@@ -18,18 +21,19 @@ import { skySettingsFor } from './settings.js';
 import type { StageTimer } from './timer.js';
 
 /** Stage names of a target, in order (progress and cache keys). */
-export const TARGET_STAGES = ['load science', 'ccd science', 'sky'] as const;
+export const TARGET_STAGES = ['load science', 'ccd science', 'flexure', 'sky'] as const;
 
 /** The settings each stage ran with, for provenance. */
 export interface TargetStageSettings {
   ccd: CcdSettings;
+  flexure: FlexureSettings;
   sky: SkySettings;
 }
 
 export interface TargetProducts {
   /** The combined, calibrated science frame in the internal orientation (wavelength increasing with x). */
   science: CalibratedFrame;
-  /** The setup's wavelength solution for this frame. */
+  /** The setup's wavelength solution, shifted by this frame's flexure. */
   solution: WavelengthSolution;
   /** Sky-subtracted frame and the sky model. */
   skySubtracted: CalibratedFrame;
@@ -38,12 +42,12 @@ export interface TargetProducts {
 }
 
 export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: StageTimer): TargetProducts {
-  const settings: TargetStageSettings = { ccd: cal.settings.ccd, sky: skySettingsFor(job.target) };
+  const settings: TargetStageSettings = { ccd: cal.settings.ccd, flexure: { ...DEFAULT_FLEXURE_SETTINGS }, sky: skySettingsFor(job.target) };
   const frames = timer.step(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
   const calibrated = timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
   // The arc stage decided the direction of the wavelengths; the science follows it.
   const science = cal.solution.flipX ? flipFrameX(calibrated) : calibrated;
-  const solution = cal.solution;
-  const sky = timer.stage(TARGET_STAGES[2], () => subtractSky(science, solution, settings.sky));
+  const solution = timer.stage(TARGET_STAGES[2], () => measureFlexure(science, cal.solution, skyLines(), settings.flexure));
+  const sky = timer.stage(TARGET_STAGES[3], () => subtractSky(science, solution, settings.sky));
   return { science, solution, skySubtracted: sky.frame, sky: sky.sky, settings };
 }
