@@ -149,7 +149,10 @@ export interface SymmetryFit {
 }
 
 export interface RotationCurve {
-  /** Systemic velocity (km/s, optical, barycentric) and its error. */
+  /** Convention and frame of every velocity here, as the velocity stage made them. */
+  convention: VelocityConvention;
+  velocityFrame: BarycentricInfo['frame'];
+  /** Systemic velocity (km/s, in that convention and frame) and its error. */
   vSys: number;
   vSysErr: number;
   /** Kinematic centre, internal row (fractional), and its error (rows). */

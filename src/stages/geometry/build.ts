@@ -95,6 +95,8 @@ export function buildRotationCurve(
   const outer = outerVelocity(points);
   return {
     product: {
+      convention: velocities.convention,
+      velocityFrame: velocities.barycentric.frame,
       vSys: sym.vSysKms,
       vSysErr: sym.vSysErrKms,
       centreRow: sym.centreRow,

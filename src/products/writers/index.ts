@@ -1,0 +1,5 @@
+export * from './text-table.js';
+export * from './curve.js';
+export * from './rows.js';
+export * from './light.js';
+export * from './modeller.js';
