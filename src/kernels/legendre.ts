@@ -101,3 +101,13 @@ export function evalLegendre2DGrid(model: Legendre2D, width: number, height: num
   }
   return out;
 }
+
+/** Change of a Legendre1D over one unit of x centred on x: f(x + 1/2) - f(x - 1/2) (per pixel for a pixel axis). */
+export function legendre1DStep(model: Legendre1D, x: number): number {
+  return evalLegendre1D(model, x + 0.5) - evalLegendre1D(model, x - 0.5);
+}
+
+/** Change of a Legendre2D over one unit of x centred on (x, y): the dispersion per pixel of a wavelength model. */
+export function legendre2DStepX(model: Legendre2D, x: number, y: number): number {
+  return evalLegendre2D(model, x + 0.5, y) - evalLegendre2D(model, x - 0.5, y);
+}

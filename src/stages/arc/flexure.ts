@@ -8,7 +8,7 @@
 import { DiagnosticLog } from '../../diagnostics.js';
 import { InputError } from '../../errors.js';
 import { fitGaussianLine } from '../../kernels/gaussian-fit.js';
-import { evalLegendre2D } from '../../kernels/legendre.js';
+import { evalLegendre2D, legendre2DStepX } from '../../kernels/legendre.js';
 import { SPEED_OF_LIGHT_KMS } from '../../physics/constants.js';
 import type { SkyLine } from '../../physics/catalogues.js';
 import type { CalibratedFrame, StageResult } from '../../products/frame.js';
@@ -64,7 +64,7 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
   const { width, height } = science;
   const yMid = (height - 1) / 2;
   const xMid = (width - 1) / 2;
-  const dispersion = evalLegendre2D(solution.model, xMid + 0.5, yMid) - evalLegendre2D(solution.model, xMid - 0.5, yMid);
+  const dispersion = legendre2DStepX(solution.model, xMid, yMid);
   const lambdaMid = evalLegendre2D(solution.model, xMid, yMid);
   const sigmaA = evalLegendre2D(solution.lsfSigmaPx, xMid, yMid) * dispersion;
   const half = settings.searchAngstrom + 4 * sigmaA;

@@ -3,7 +3,7 @@
  * re-match with a tighter tolerance, a wider part of the detector and a higher order, until the
  * matches stop changing. A wrong guess matches few lines or leaves a large scatter.
  */
-import { evalLegendre1D, type Legendre1D } from '../../kernels/legendre.js';
+import { evalLegendre1D, legendre1DStep, type Legendre1D } from '../../kernels/legendre.js';
 import { fitLegendre1D, type LegendreFitResult } from '../../kernels/legendre-fit.js';
 import type { LampLine } from '../../physics/catalogues.js';
 import type { LinearGuess } from './first-guess.js';
@@ -28,11 +28,6 @@ export interface LineMatches {
 /** Centroid error floor added in quadrature (pixels): keeps the brightest line from dominating (common practice). */
 export const CENTROID_FLOOR_PX = 0.02;
 
-/** Derivative d lambda / dx of a Legendre1D at x, Angstrom per pixel (central difference). */
-export function localDispersion(model: Legendre1D, x: number): number {
-  return evalLegendre1D(model, x + 0.5) - evalLegendre1D(model, x - 0.5);
-}
-
 /** Index of the line nearest to wavelength `w` in a list sorted by wavelength. */
 function nearestLine(wavelengths: Float64Array, w: number): number {
   let lo = 0;
@@ -56,7 +51,7 @@ export function matchPeaks(peaks: MatchPeak[], wavelengths: Float64Array, model:
     if (Math.abs(x - centre) > region) continue;
     const w = evalLegendre1D(model, x);
     const j = nearestLine(wavelengths, w);
-    const dist = Math.abs(wavelengths[j]! - w) / Math.abs(localDispersion(model, x));
+    const dist = Math.abs(wavelengths[j]! - w) / Math.abs(legendre1DStep(model, x));
     if (!(dist <= tolPx)) continue;
     const prev = owner.get(j);
     if (prev === undefined || dist < prev.dist) owner.set(j, { peak: i, dist });
@@ -82,7 +77,7 @@ export function fitMatches(peaks: MatchPeak[], wavelengths: Float64Array, pairs:
   let sum = 0;
   for (let i = 0; i < n; i++) {
     if (!fit.used[i]) continue;
-    const r = fit.residuals[i]! / localDispersion(fit.model, x[i]!);
+    const r = fit.residuals[i]! / legendre1DStep(fit.model, x[i]!);
     sum += r * r;
   }
   return { peak: pairs.peak, line: pairs.line, fit, rmsPx: Math.sqrt(sum / Math.max(fit.nUsed, 1)), nUsed: fit.nUsed };

@@ -5,7 +5,7 @@
  */
 import { DiagnosticLog } from '../../diagnostics.js';
 import { StageError } from '../../errors.js';
-import { evalLegendre2D, evalLegendre2DGrid, type Legendre2D } from '../../kernels/legendre.js';
+import { evalLegendre2D, evalLegendre2DGrid, legendre2DStepX } from '../../kernels/legendre.js';
 import { fitLegendre2D } from '../../kernels/legendre-fit.js';
 import { median } from '../../kernels/robust.js';
 import { SPEED_OF_LIGHT_KMS } from '../../physics/constants.js';
@@ -28,11 +28,6 @@ const IDENTIFY_ORDER = 5;
 /** The arc's name for messages: the first exposure's path, else FILENAME, else 'arc'. */
 function arcName(arc: CalibratedFrame): string {
   return arc.exposures[0]?.path ?? arc.header.getString('FILENAME') ?? 'arc';
-}
-
-/** d lambda / dx of a Legendre2D at (x, y), Angstrom per pixel. */
-export function dispersionAt(model: Legendre2D, x: number, y: number): number {
-  return evalLegendre2D(model, x + 0.5, y) - evalLegendre2D(model, x - 0.5, y);
 }
 
 export function solveWavelengths(arc: CalibratedFrame, lampLines: LampLine[], settings: ArcSettings): StageResult<WavelengthSolution> {
@@ -105,7 +100,7 @@ export function solveWavelengths(arc: CalibratedFrame, lampLines: LampLine[], se
     lines.push({ wavelength: line.wavelength, element: line.element, x: px[i]!, y: py[i]!, sigmaPx: points[i]!.sigma, residualAngstrom, used });
     if (!used) continue;
     sumA += residualAngstrom * residualAngstrom;
-    const rp = residualAngstrom / dispersionAt(model, px[i]!, py[i]!);
+    const rp = residualAngstrom / legendre2DStepX(model, px[i]!, py[i]!);
     sumPx += rp * rp;
     lo = Math.min(lo, line.wavelength);
     hi = Math.max(hi, line.wavelength);
@@ -129,7 +124,7 @@ export function solveWavelengths(arc: CalibratedFrame, lampLines: LampLine[], se
   if (rmsPx > 0.2) log.warn('high-rms', `solution RMS ${rmsPx.toFixed(3)} px is above 0.2 px: check the identification (common practice)`, { place: { file: name }, expected: '<= 0.2 px', actual: `${rmsPx.toFixed(3)} px` });
   reportExtrapolation(log, model, width, yMid, [lo, hi], name);
   for (let x = 0; x < width - 1; x += 16) {
-    if (!(dispersionAt(model, x, yMid) > 0)) {
+    if (!(legendre2DStepX(model, x, yMid) > 0)) {
       log.warn('not-monotonic', `the solution is not increasing at x = ${x} of the central row: the order may be too high for the lines found`, { place: { file: name } });
       break;
     }
