@@ -55,8 +55,13 @@ export function decodeStored(
       }
       break;
     case 16:
-      for (let i = 0; i < n; i++) {
-        const v = view.getInt16(2 * i);
+      // Hot path for raw frames: bytes combined by hand, faster than DataView.getInt16 in V8.
+      if (blank === undefined) {
+        for (let i = 0, o = offset; i < n; i++, o += 2) out[i] = zero + scale * (((bytes[o]! << 24) >> 16) | bytes[o + 1]!);
+        break;
+      }
+      for (let i = 0, o = offset; i < n; i++, o += 2) {
+        const v = ((bytes[o]! << 24) >> 16) | bytes[o + 1]!;
         if (v === b) (out[i] = NaN), blankCount++;
         else out[i] = zero + scale * v;
       }

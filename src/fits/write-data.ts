@@ -16,6 +16,17 @@ export function blankFor(spec: ImageHduSpec): number | undefined {
   return undefined;
 }
 
+/** Raw frames: unscaled 16-bit values written byte by byte (faster than DataView in V8). */
+function encodeInt16(d: ArrayLike<number>, n: number, zero: number, out: Uint8Array, offset: number): void {
+  for (let i = 0, o = offset; i < n; i++, o += 2) {
+    let s = Math.round(d[i]! - zero);
+    if (s < -32768) s = -32768;
+    else if (s > 32767) s = 32767;
+    out[o] = (s >> 8) & 0xff;
+    out[o + 1] = s & 0xff;
+  }
+}
+
 /** Write the image's stored values at out[offset..). */
 export function encodeImage(spec: ImageHduSpec, out: Uint8Array, offset: number, blank: number | undefined): void {
   const n = spec.width * spec.height;
@@ -23,6 +34,10 @@ export function encodeImage(spec: ImageHduSpec, out: Uint8Array, offset: number,
   const view = new DataView(out.buffer, out.byteOffset + offset, n * (Math.abs(spec.bitpix) / 8));
   if (spec.bitpix === -32) {
     for (let i = 0; i < n; i++) view.setFloat32(4 * i, d[i]!);
+    return;
+  }
+  if (spec.bitpix === 16 && blank === undefined && (spec.bscale ?? 1) === 1) {
+    encodeInt16(d, n, spec.bzero ?? 0, out, offset);
     return;
   }
   if (spec.bitpix === -64) {
