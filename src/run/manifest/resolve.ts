@@ -7,6 +7,7 @@ import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { InputError } from '../../errors.js';
 import { GALAXY_LINES, KNOWN_LAMPS, readLineListFile } from '../../physics/catalogues.js';
+import { parseDeclination, parseRightAscension } from '../../physics/coordinates.js';
 import { uniqueFolderNames } from '../names.js';
 import { globFiles } from './glob.js';
 import { parseManifestText, type ParsedManifest } from './parse.js';
@@ -89,11 +90,15 @@ export function resolveManifest(parsed: ParsedManifest, manifestPath: string, di
     // Malformed line lists are user mistakes: find them now, before any pixel is read.
     for (const file of setups[name].line_lists) readLineListFile(file);
   }
-  m.targets.forEach((t, i) =>
+  m.targets.forEach((t, i) => {
     t.lines.forEach((line, j) => {
       if (!Object.hasOwn(GALAXY_LINES, line)) refuse(['targets', i, 'lines', j], `unknown line name '${line}'`, `one of ${Object.keys(GALAXY_LINES).join(', ')}`);
-    }),
-  );
+    });
+    if (t.coordinates) {
+      parseRightAscension(t.coordinates.ra, { file: displayPath, ...parsed.locate(['targets', i, 'coordinates', 'ra']) });
+      parseDeclination(t.coordinates.dec, { file: displayPath, ...parsed.locate(['targets', i, 'coordinates', 'dec']) });
+    }
+  });
   const folders = uniqueFolderNames(m.targets.map((t) => t.name));
   const targets = m.targets.map((t, i): ResolvedTarget => ({
     ...t,

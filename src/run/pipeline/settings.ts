@@ -8,6 +8,9 @@ import { DEFAULT_ARC_SETTINGS, type ArcSettings } from '../../stages/arc/setting
 import { DEFAULT_CCD_SETTINGS, type CcdSettings } from '../../stages/ccd/settings.js';
 import type { GeometryInput } from '../../stages/geometry/settings.js';
 import { DEFAULT_SKY_SETTINGS, type SkySettings } from '../../stages/sky/settings.js';
+import { parseDeclination, parseRightAscension } from '../../physics/coordinates.js';
+import { DEFAULT_LINE_SETTINGS, type LineSettings } from '../../stages/lines/settings.js';
+import { DEFAULT_VELOCITY_SETTINGS, type VelocitySettings } from '../../stages/velocity/settings.js';
 import type { ResolvedSetup, ResolvedTarget } from '../manifest/resolve.js';
 
 export function ccdSettingsFor(setup: ResolvedSetup): CcdSettings {
@@ -53,4 +56,18 @@ export function geometryInputFor(setup: ResolvedSetup, target: ResolvedTarget): 
   if (target.radial_bins_arcsec !== undefined) g.radialBinsArcsec = [...target.radial_bins_arcsec];
   if (target.min_cos_theta !== undefined) g.minCosTheta = target.min_cos_theta;
   return g;
+}
+
+export function lineSettingsFor(target: ResolvedTarget): LineSettings {
+  const s: LineSettings = { ...DEFAULT_LINE_SETTINGS, lines: [...target.lines] };
+  if (target.snr_target !== undefined) s.snrTarget = target.snr_target;
+  return s;
+}
+
+export function velocitySettingsFor(setup: ResolvedSetup, target: ResolvedTarget): VelocitySettings {
+  const s: VelocitySettings = { ...DEFAULT_VELOCITY_SETTINGS, convention: target.velocity_convention, frame: target.velocity_frame };
+  if (setup.site) s.site = { latitudeDeg: setup.site.latitude_deg, longitudeDeg: setup.site.longitude_deg, heightM: setup.site.height_m };
+  const c = target.coordinates;
+  if (c) s.pointing = { raDeg: parseRightAscension(c.ra), decDeg: parseDeclination(c.dec), ...(c.equinox !== undefined ? { equinox: c.equinox } : {}) };
+  return s;
 }
