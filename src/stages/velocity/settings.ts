@@ -10,7 +10,7 @@ export interface VelocitySettings {
   /**
    * Medium in which observed and rest wavelengths are compared. The measured wavelengths are air;
    * `vacuum` converts both the observed and the rest wavelength to vacuum (Morton 2000) first,
-   * which removes the dispersion of air from the Doppler ratio (about 0.1 km/s at cz = 5000 km/s
+   * which removes the dispersion of air from the Doppler ratio (about 0.04 km/s at cz = 5000 km/s
    * near H-alpha). Default `air`.
    */
   restMedium: 'air' | 'vacuum';
