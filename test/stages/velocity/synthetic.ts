@@ -101,7 +101,14 @@ export function lineTable(bins: RowBin[], measurements: LineMeasurement[]): Line
     measurements,
     fits: [],
     continuumProfile: new Float64Array(bins.length),
-    sky: { skyRegions: [], galaxyRegion: [0, 0], skySpectrum: new Float32Array(0), residualNormRms: new Float32Array(0) },
+    sky: {
+      skyRegions: [],
+      galaxyRegion: [0, 0],
+      skySpectrum: new Float32Array(0),
+      residualNormRms: new Float32Array(0),
+      slitFactor: new Float32Array(0),
+      emissionProfile: new Float64Array(0),
+    },
   };
 }
 
