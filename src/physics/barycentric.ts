@@ -38,6 +38,8 @@ const dist = (a: Vec, b: Vec): number => Math.hypot(a[0] - b[0], a[1] - b[1], a[
  */
 export function radialVelocityCorrection(time: Date, pointing: Pointing, site: Site, frame: 'barycentric' | 'heliocentric' = 'barycentric'): number {
   if (!Number.isFinite(time.getTime())) throw new RangeError('radialVelocityCorrection: invalid time');
+  if (!Number.isFinite(pointing.raDeg) || !(pointing.decDeg >= -90 && pointing.decDeg <= 90)) throw new RangeError(`radialVelocityCorrection: invalid pointing ${pointing.raDeg}, ${pointing.decDeg} deg`);
+  if (!(site.latitudeDeg >= -90 && site.latitudeDeg <= 90) || !Number.isFinite(site.longitudeDeg) || !Number.isFinite(site.heightM)) throw new RangeError('radialVelocityCorrection: invalid site');
   const n = precessToJ2000(unitVector(pointing.raDeg, pointing.decDeg), pointing.equinox ?? 2000);
   const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.heightM);
   const topo = ObserverState(time, observer, false);

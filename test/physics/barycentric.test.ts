@@ -45,3 +45,35 @@ describe('radialVelocityCorrection against astropy', () => {
     expect(Math.abs(a)).toBeLessThan(30.5);
   });
 });
+
+describe("the Earth's rotation in radialVelocityCorrection", () => {
+  // REFERENCE.md: the rotation part is 0.4651 km/s x cos(latitude) (omega = 7.292115e-5 rad/s, a = 6378.137 km).
+  // Two sites at opposite longitudes at one instant share the orbital part, so half their difference
+  // is the rotation alone; its largest value over targets on the equator is the rotation speed.
+  function rotationAmplitude(latitudeDeg: number): number {
+    const t = new Date('2019-06-01T00:00:00Z');
+    let max = 0;
+    for (let ra = 0; ra < 360; ra += 0.5) {
+      const p = { raDeg: ra, decDeg: 0 };
+      const a = radialVelocityCorrection(t, p, { latitudeDeg, longitudeDeg: 10, heightM: 0 });
+      const b = radialVelocityCorrection(t, p, { latitudeDeg, longitudeDeg: -170, heightM: 0 });
+      max = Math.max(max, (a - b) / 2);
+    }
+    return max;
+  }
+
+  it('is 0.4651 km/s on the equator', () => {
+    expect(Math.abs(rotationAmplitude(0) - 0.4651)).toBeLessThan(0.0005);
+  });
+
+  it('scales as cos(latitude) within the 0.2% of the ellipsoid at 60 deg', () => {
+    expect(rotationAmplitude(60) / (0.4651 * 0.5)).toBeCloseTo(1, 2);
+  });
+
+  it('refuses an invalid time, pointing or site', () => {
+    const site = { latitudeDeg: 0, longitudeDeg: 0, heightM: 0 };
+    expect(() => radialVelocityCorrection(new Date('nope'), { raDeg: 0, decDeg: 0 }, site)).toThrow(RangeError);
+    expect(() => radialVelocityCorrection(new Date(), { raDeg: 0, decDeg: 100 }, site)).toThrow(RangeError);
+    expect(() => radialVelocityCorrection(new Date(), { raDeg: 0, decDeg: 0 }, { ...site, latitudeDeg: NaN })).toThrow(RangeError);
+  });
+});
