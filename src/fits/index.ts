@@ -9,3 +9,4 @@ export { loadRawFrame, inheritedHeader } from './raw-frame.js';
 export { writeFits } from './write.js';
 export { formatCard, formatHeader } from './card-format.js';
 export { encodeChecksum, onesComplementSum } from './checksum.js';
+export { summariseFits, pixelStats, HDU_TYPE_NAMES, type HduSummary, type PixelStats } from './summary.js';
