@@ -10,11 +10,12 @@ import { type CliIo, processIo } from './io.js';
 import { registerInspect } from './commands/inspect.js';
 import { registerSimulate } from './commands/simulate.js';
 import { registerReduce } from './commands/reduce.js';
+import { registerDemo } from './commands/demo.js';
 
 /** Each command module adds itself to the program; the action returns the exit code. */
 export type CommandRegistrar = (program: Command, io: CliIo, setExit: (code: number) => void) => void;
 
-const COMMANDS: CommandRegistrar[] = [registerInspect, registerSimulate, registerReduce];
+const COMMANDS: CommandRegistrar[] = [registerInspect, registerSimulate, registerReduce, registerDemo];
 
 export async function main(argv: string[], io: CliIo = processIo()): Promise<number> {
   let exitCode: number = EXIT.ok;

@@ -9,6 +9,7 @@ import type { Diagnostic } from '../../diagnostics.js';
 import { writeFits } from '../../fits/write.js';
 import { loadLampLines, readLineListFile, type LampLine } from '../../physics/catalogues.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
+import { formatArcLinesCsv, formatSolutionJson } from '../../products/writers/wavelength.js';
 import { masterBiasFits, masterFlatFits, type CalibrationFits } from '../../products/writers/calibration.js';
 import { solveWavelengths } from '../../stages/arc/solve.js';
 import type { ArcSettings } from '../../stages/arc/settings.js';
@@ -83,10 +84,19 @@ export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: St
       ['bias.fits', masterBiasFits(ccd, frames.bias.map((f) => f.path), history)],
       ['flat.fits', masterFlatFits(ccd, frames.flat.map((f) => f.path), history)],
     ];
-    return files.map(([name, fits]) => {
+    const written = files.map(([name, fits]) => {
       writeFileAtomic(join(run.outputDir, dir, name), writeFits(fits.hdus, { primaryHeader: fits.primaryHeader }));
       return join(dir, name);
     });
+    const texts: [string, string][] = [
+      ['solution.json', formatSolutionJson(solution, frames.arc.map((f) => f.path))],
+      ['arc-lines.csv', formatArcLinesCsv(solution)],
+    ];
+    for (const [name, text] of texts) {
+      writeFileAtomic(join(run.outputDir, dir, name), text);
+      written.push(join(dir, name));
+    }
+    return written;
   });
   return { ccd, solution, diagnostics: timer.diagnostics, settings: { ccd: ccdSettings, arc: arcSettings }, products, history };
 }
