@@ -1,4 +1,3 @@
-export * from './text-table.js';
 export * from './curve.js';
 export * from './rows.js';
 export * from './light.js';
