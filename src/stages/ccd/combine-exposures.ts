@@ -3,13 +3,17 @@
  * noise model rather than the scatter of a few values:
  *   1. reference rate = a low order statistic of the rates v_i / t_i (the minimum for up to four
  *      exposures), so that a pixel hit in two of three exposures still starts from a clean value;
- *   2. exposure i is rejected when v_i - r t_i > crSigma sigma_i, with
- *      sigma_i^2 = k0 / F^2 + r t_i / F + (crRelativeScatter r t_i)^2 (read noise and bias
- *      through the flat F, Poisson, and a fractional term for seeing and transparency);
- *   3. r = sum_kept v_i / sum_kept t_i, and 2 repeats until the kept set holds (values may return);
+ *   2. exposure i is kept when v_i - r_i t_i <= crSigma sigma_i, r_i the rate of the other kept
+ *      exposures (leave-one-out; the starting exposures in the first round), with
+ *      sigma_i^2 = s^2(r_i t_i) + t_i^2 sum_j s^2(r_i t_j) / (sum_j t_j)^2 (the reference's own
+ *      noise) and s^2(e) = k0 / F^2 + e / F + (crRelativeScatter e)^2 (read noise and bias through
+ *      the flat F, Poisson, and a fractional term for seeing and transparency);
+ *   3. 2 repeats until the kept set holds (values may return);
  *   4. each rejection is grown by crGrow pixels in its own exposure.
  * Bright line cores are in every exposure, so they sit on the reference and are kept.
- * Output: electrons scaled to the total exposure time T, sci = T sum_kept v / sum_kept t.
+ * Output: electrons scaled to the total exposure time T, sci = T sum_kept v / sum_kept t, with
+ *   var = (T / sum_kept t)^2 sum_kept var_i + (T n_kept / sum_kept t)^2 g^2 var(bias) / F^2 + sci^2 var(F) / F^2,
+ * the master bias and flat errors entering once, since every exposure shares them.
  */
 import { MASK_BITS } from '../../products/frame.js';
 import type { CalibratedExposure, ExposureCalibration } from './exposure.js';
@@ -37,39 +41,54 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
   const { width, height } = cal;
   const n = width * height;
   const total = exptimesS.reduce((a, b) => a + b, 0);
-  const k0 = cal.readNoiseE * cal.readNoiseE + cal.gain * cal.gain * cal.biasVarianceAdu;
+  const biasE2 = cal.gain * cal.gain * cal.biasVarianceAdu;
+  const k0 = cal.readNoiseE * cal.readNoiseE + biasE2;
   const rel2 = settings.crRelativeScatter * settings.crRelativeScatter;
   const threshold = settings.crSigma;
   const startRank = Math.max(0, Math.floor((nExp - 1) / 2) - 1);
+  const all = (1 << nExp) - 1;
   const rejectBits = new Uint32Array(n);
   const rates = new Float64Array(nExp);
   let hits = 0;
   if (nExp > 1) {
+    const variance = new Float64Array(nExp);
     for (let p = 0; p < n; p++) {
       for (let i = 0; i < nExp; i++) rates[i] = exposures[i]!.sci[p]! / exptimesS[i]!;
-      let rate = orderStatistic(rates, nExp, startRank);
+      const startRate = orderStatistic(rates, nExp, startRank);
       const f = cal.masterFlat[p]!;
       const constant = k0 / (f * f);
-      let bits = 0;
+      // Round 0 keeps the exposures at or below the starting rate; later rounds test each
+      // exposure against the others that are kept (leave-one-out), so a value never judges itself.
+      let kept = 0;
+      for (let i = 0; i < nExp; i++) if (rates[i]! <= startRate) kept |= 1 << i;
       for (let round = 0; round < MAX_ROUNDS; round++) {
         let next = 0;
-        let sumV = 0;
-        let sumT = 0;
         for (let i = 0; i < nExp; i++) {
-          const e = rate * exptimesS[i]!;
-          const ep = e > 0 ? e : 0;
-          const sigma = Math.sqrt(constant + ep / f + rel2 * ep * ep);
-          const v = exposures[i]!.sci[p]!;
-          if (v - e > threshold * sigma) next |= 1 << i;
-          else {
-            sumV += v;
-            sumT += exptimesS[i]!;
+          let sumV = 0;
+          let sumT = 0;
+          for (let j = 0; j < nExp; j++) {
+            if (j === i || !(kept & (1 << j))) continue;
+            sumV += exposures[j]!.sci[p]!;
+            sumT += exptimesS[j]!;
           }
+          if (sumT === 0) {
+            if (kept & (1 << i)) next |= 1 << i; // the lone reference stays
+            continue;
+          }
+          const rate = sumV / sumT;
+          let refVar = 0;
+          for (let j = 0; j < nExp; j++) {
+            if (j === i || !(kept & (1 << j))) continue;
+            refVar += noiseModel(rate * exptimesS[j]!, constant, f, rel2);
+          }
+          const e = rate * exptimesS[i]!;
+          variance[i] = noiseModel(e, constant, f, rel2) + (refVar * exptimesS[i]! * exptimesS[i]!) / (sumT * sumT);
+          if (exposures[i]!.sci[p]! - e <= threshold * Math.sqrt(variance[i]!)) next |= 1 << i;
         }
-        if (next === bits && round > 0) break;
-        bits = next;
-        if (sumT > 0) rate = sumV / sumT;
+        if (next === kept) break;
+        kept = next;
       }
+      const bits = all & ~kept;
       if (bits) {
         rejectBits[p] = bits;
         hits += popcount(bits);
@@ -82,7 +101,6 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
   const variance = new Float32Array(n);
   const mask = new Uint16Array(n);
   const rejected = new Uint8Array(n);
-  const all = (1 << nExp) - 1;
   let grown = 0;
   for (let p = 0; p < n; p++) {
     let out = grownBits[p]! & all;
@@ -106,14 +124,23 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
       sumVar += exposures[i]!.var[p]!;
       sumT += exptimesS[i]!;
     }
-    sci[p] = (total * sumV) / sumT;
-    variance[p] = (total * total * sumVar) / (sumT * sumT);
+    const value = (total * sumV) / sumT;
+    const f = cal.masterFlat[p]!;
+    const biasScale = (total * (nExp - popcount(out))) / sumT;
+    sci[p] = value;
+    variance[p] = (total * total * sumVar) / (sumT * sumT) + (biasScale * biasScale * biasE2) / (f * f) + (value * value * cal.flatVariance[p]!) / (f * f);
     mask[p] = flags;
     const count = popcount(out);
     rejected[p] = count;
     grown += count;
   }
   return { sci, var: variance, mask, rejected, exptimeS: total, hits, grown };
+}
+
+/** Variance (e^2) of an exposure expected to hold e electrons: read noise and bias, Poisson, relative scatter. */
+function noiseModel(e: number, constant: number, flat: number, rel2: number): number {
+  const ep = e > 0 ? e : 0;
+  return constant + ep / flat + rel2 * ep * ep;
 }
 
 /** k-th smallest of a[0..n) by insertion sort of a copy (n is a handful). */

@@ -34,8 +34,9 @@ export interface CalibratedExposure {
 }
 
 /**
- * var = (g max(raw - bias, 0) + RN^2 + g^2 var(bias)) / F^2 + sci^2 var(F) / F^2, in e^2: the
- * Poisson term uses the detected electrons before the flat (the flat does not change the counts).
+ * var = (g max(raw - bias, 0) + RN^2) / F^2, in e^2: the noise of this exposure alone (Poisson on
+ * the detected electrons before the flat, and read noise). The errors of the master bias and
+ * flat are the same in every exposure, so the combination adds them once (combine-exposures.ts).
  */
 export function calibrateExposure(trimmed: TrimmedFrame, cal: ExposureCalibration): CalibratedExposure {
   const o = toInternal(trimmed.data, trimmed.width, trimmed.height, cal.orientation);
@@ -48,13 +49,12 @@ export function calibrateExposure(trimmed: TrimmedFrame, cal: ExposureCalibratio
   const variance = new Float32Array(n);
   const mask = m.data;
   const g = cal.gain;
-  const constantE2 = cal.readNoiseE * cal.readNoiseE + g * g * cal.biasVarianceAdu;
+  const rn2 = cal.readNoiseE * cal.readNoiseE;
   for (let i = 0; i < n; i++) {
     const detected = (sci[i]! - cal.masterBias[i]!) * g;
     const f = cal.masterFlat[i]!;
-    const e = detected / f;
-    sci[i] = e;
-    variance[i] = ((detected > 0 ? detected : 0) + constantE2) / (f * f) + (e * e * cal.flatVariance[i]!) / (f * f);
+    sci[i] = detected / f;
+    variance[i] = ((detected > 0 ? detected : 0) + rn2) / (f * f);
     mask[i] = mask[i]! | cal.flatMask[i]!;
   }
   return { sci, var: variance, mask };

@@ -14,9 +14,10 @@ export interface LaplacianSettings {
   /** Detection rounds, each on the image cleaned by the previous ones. Default 4 [recalled]. */
   iterations: number;
   /**
-   * whorl's own addition for long-slit spectra: a candidate must also stand out by sigmaLim noise
-   * sigmas above the median of its four slit neighbours (same internal x, y +-1, +-2), since
-   * emission and sky lines are smooth along the slit and cosmic rays are not. Default true.
+   * whorl's own addition for long-slit spectra: a candidate must also stand sigmaLim sigmas (from
+   * the neighbours' variance) above the median of its usable slit neighbours (same internal x,
+   * y +-1, +-2), since emission and sky lines are smooth along the slit and cosmic rays are not.
+   * Default true.
    */
   slitProtection: boolean;
 }
