@@ -32,8 +32,18 @@ function arcName(arc: CalibratedFrame): string {
 
 export function solveWavelengths(arc: CalibratedFrame, lampLines: LampLine[], settings: ArcSettings): StageResult<WavelengthSolution> {
   checkArcSettings(settings);
-  const log = new DiagnosticLog('arc');
   const name = arcName(arc);
+  try {
+    return solve(arc, lampLines, settings, name);
+  } catch (e) {
+    // the kernels refuse degenerate systems (too few or collinear points) with RangeError
+    if (e instanceof RangeError) throw new StageError('arc', 'arc.degenerate-fit', `the arc ${name}: the lines found do not constrain the solution (${e.message}); set lower xOrder/yOrder or check the lamps`);
+    throw e;
+  }
+}
+
+function solve(arc: CalibratedFrame, lampLines: LampLine[], settings: ArcSettings, name: string): StageResult<WavelengthSolution> {
+  const log = new DiagnosticLog('arc');
   const { width, height } = arc;
   const bands = extractBands(arc, settings.rowBand);
   const bandPeaks = measureBandPeaks(bands, settings.detectSigma, settings.blendSigma);
