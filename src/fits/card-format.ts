@@ -21,9 +21,11 @@ function formatNumber(v: number, key: string): string {
   if (!Number.isFinite(v)) {
     throw new InputError('fits.write-invalid', 'a header value must be a finite number', { key }, { expected: 'a finite number', actual: String(v) });
   }
-  if (Number.isInteger(v) && Math.abs(v) < 1e16) return String(v);
-  // Shortest round-trip form; FITS wants an upper-case exponent and a decimal point or exponent.
-  return String(v).toUpperCase();
+  if (Number.isSafeInteger(v)) return String(v);
+  // Shortest round-trip form; a real needs a decimal point or an upper-case exponent (section 4.2.4),
+  // so integral values beyond 2^53 stay reals rather than becoming integers on reading.
+  const s = String(v).toUpperCase();
+  return /[.E]/.test(s) ? s : `${s}.0`;
 }
 
 /** The value as it appears on the card (strings quoted, not padded). */

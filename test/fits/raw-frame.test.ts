@@ -1,0 +1,64 @@
+/** loadRawFrame: the first 2-D image of a file, in physical ADU; fixtures written by astropy and fpack. */
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { InputError } from '../../src/errors.js';
+import { Header, loadRawFrame, parseFits, readImage, writeFits } from '../../src/fits/index.js';
+
+const DIR = join(import.meta.dirname, '../../fixtures/fits');
+const tmp = mkdtempSync(join(tmpdir(), 'whorl-raw-'));
+
+describe('loadRawFrame', () => {
+  it('reads the astropy uint16 frame with overscan into a Float32Array of ADU, header included', () => {
+    const f = loadRawFrame(join(DIR, 'raw_frame.fits'));
+    expect(f).toMatchObject({ hdu: 0, width: 72, height: 40 });
+    expect(f.data).toBeInstanceOf(Float32Array);
+    expect(f.data[10 * 72 + 20]).toBe(65535); // the saturated pixel make_fixtures.py set
+    expect(f.header.getString('BIASSEC')).toBe('[65:72,1:40]');
+  });
+
+  it('finds the image inside an fpack file (HDU 1) with the same pixels and cards', () => {
+    const plain = loadRawFrame(join(DIR, 'raw_frame.fits'));
+    const packed = loadRawFrame(join(DIR, 'raw_frame.fits.fz'));
+    expect(packed.hdu).toBe(1);
+    expect(Array.from(packed.data)).toEqual(Array.from(plain.data));
+    expect(packed.header.getString('IMAGETYP')).toBe('object');
+    expect(packed.header.getNumber('BITPIX')).toBe(16);
+    expect(packed.header.has('ZCMPTYPE')).toBe(false);
+  });
+
+  it('gives an extension the primary cards it lacks (INHERIT convention), its own cards winning', () => {
+    const primaryHeader = new Header().set('EXPTIME', 300).set('IMAGETYP', 'flat').set('OBSERVER', 'nobody');
+    const bytes = writeFits([{ kind: 'image', name: 'SCI', bitpix: 16, bzero: 32768, width: 4, height: 3, data: new Array(12).fill(5), header: new Header().set('IMAGETYP', 'object') }], { primaryHeader });
+    const path = join(tmp, 'mef.fits');
+    writeFileSync(path, bytes);
+    const f = loadRawFrame(path);
+    expect(f.hdu).toBe(1);
+    expect(f.header.getString('IMAGETYP')).toBe('object');
+    expect(f.header.getNumber('EXPTIME')).toBe(300);
+    expect(f.header.getNumber('NAXIS1')).toBe(4);
+  });
+
+  it('a file with no 2-D image is an InputError naming the file', () => {
+    const path = join(tmp, 'table.fits');
+    writeFileSync(path, writeFits([{ kind: 'bintable', name: 'T', columns: [{ name: 'A', format: 'J', values: [1] }] }]));
+    expect(() => loadRawFrame(path)).toThrow(InputError);
+    expect(() => loadRawFrame(path)).toThrow(/table\.fits: no HDU holds a 2-D image/);
+  });
+});
+
+describe('unknown extensions', () => {
+  it('are listed as unknown and skipped; the HDUs after them are read (section 3.4.1)', () => {
+    const bytes = writeFits([
+      { kind: 'image', name: 'A', bitpix: 8, width: 2, height: 2, data: [1, 2, 3, 4] },
+      { kind: 'image', name: 'B', bitpix: 8, width: 2, height: 2, data: [5, 6, 7, 8] },
+    ]);
+    const text = Buffer.from(bytes).toString('latin1');
+    const at = text.indexOf("XTENSION= 'IMAGE   '") + 11;
+    bytes.set(new TextEncoder().encode('FOREIGN '), at);
+    const file = parseFits(bytes, 'mem', { checksum: 'skip' });
+    expect(file.hdus.map((h) => h.kind)).toEqual(['image', 'unknown', 'image']);
+    expect(Array.from(readImage(file, 2).data)).toEqual([5, 6, 7, 8]);
+  });
+});
