@@ -97,7 +97,7 @@ function loadGalaxyLines(): Record<string, GalaxyLine> {
     const name = row.fields[0]!;
     const air = numberField(row, 1, 'air wavelength', path, MIN_AIR_ANGSTROM, MAX_AIR_ANGSTROM);
     const vacuum = numberField(row, 2, 'vacuum wavelength', path, MIN_AIR_ANGSTROM, MAX_AIR_ANGSTROM);
-    out[name] = { name, air, vacuum, source: `config/lines/galaxy.txt [${row.fields[3]}] ${row.comment}`.trim() };
+    out[name] = Object.freeze({ name, air, vacuum, source: `config/lines/galaxy.txt [${row.fields[3]}] ${row.comment}`.trim() });
   }
   return out;
 }

@@ -1,9 +1,11 @@
 /**
  * Sky coordinates, observatory site and exposure times as written in FITS headers.
- * Angles come back in degrees. Sexagesimal strings use ':' or spaces between fields.
+ * Angles come back in degrees. Sexagesimal strings use ':', spaces or unit letters (12h34m56s,
+ * -5d06m07s) between fields.
  */
 import { InputError, type ErrorPlace } from '../errors.js';
 import type { Header } from '../fits/header.js';
+import { geodeticFromGeocentric } from './geodetic.js';
 
 const SEXAGESIMAL = /^([+-])?\s*(\d{1,3})(?::|\s+)(\d{1,2})(?:(?::|\s+)(\d{1,2}(?:\.\d*)?))?$/;
 const DECIMAL = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
@@ -13,7 +15,8 @@ const DECIMAL = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
  * Returns undefined when the text is not sexagesimal.
  */
 function parseSexagesimal(text: string): { negative: boolean; value: number; whole: number; minutes: number; seconds: number } | undefined {
-  const m = SEXAGESIMAL.exec(text.trim());
+  // Unit letters as separators: 12h34m56.7s, -12d34m56.7s.
+  const m = SEXAGESIMAL.exec(text.trim().replace(/^([+-]?\s*\d+)[hd](\d+)m(\d+(?:\.\d*)?)s?$/i, '$1:$2:$3'));
   if (!m) return undefined;
   const whole = Number(m[2]);
   const minutes = Number(m[3]);
@@ -74,17 +77,29 @@ function headerNumber(header: Header, key: string, place: ErrorPlace): number | 
   return n;
 }
 
+/** The site from geocentric OBSGEO-X/Y/Z (m), all three or none. */
+function siteFromGeocentric(header: Header, place: ErrorPlace): Site | undefined {
+  const xyz = (['OBSGEO-X', 'OBSGEO-Y', 'OBSGEO-Z'] as const).map((k) => headerNumber(header, k, place));
+  if (xyz.every((v) => v === undefined)) return undefined;
+  const missing = ['OBSGEO-X', 'OBSGEO-Y', 'OBSGEO-Z'].find((_, i) => xyz[i] === undefined);
+  if (missing !== undefined) throw new InputError('header.missing-key', `${missing} is missing while other OBSGEO-X/Y/Z cards are given`, { ...place, key: missing });
+  const [x, y, z] = xyz as [number, number, number];
+  const r = Math.hypot(x, y, z);
+  if (r < 6.3e6 || r > 6.5e6) throw new InputError('header.out-of-range', 'OBSGEO-X/Y/Z is not a point on the Earth', { ...place, key: 'OBSGEO-X' }, { expected: 'geocentric metres, 6.3e6 to 6.5e6 m from the centre', actual: `${r.toFixed(0)} m` });
+  return geodeticFromGeocentric(x, y, z);
+}
+
 /**
- * The site from OBSGEO-B (latitude, deg), OBSGEO-L (longitude, deg east) and OBSGEO-H (m)
- * (WCS Paper III, Greisen et al. 2006). Undefined when neither B nor L is present; one without
- * the other is an InputError. A missing OBSGEO-H counts as 0 m: 1 km of height changes the
- * rotation velocity by 7e-5 km/s.
+ * The site from OBSGEO-B (latitude, deg), OBSGEO-L (longitude, deg east) and OBSGEO-H (m), or
+ * else from geocentric OBSGEO-X/Y/Z (m, WGS84) (WCS Paper III, Greisen et al. 2006). Undefined
+ * when none is present; B without L (or part of X/Y/Z) is an InputError. A missing OBSGEO-H
+ * counts as 0 m: 1 km of height changes the rotation velocity by 7e-5 km/s.
  */
 export function siteFromHeader(header: Header, place: ErrorPlace = {}): Site | undefined {
   const lat = headerNumber(header, 'OBSGEO-B', place);
   const lon = headerNumber(header, 'OBSGEO-L', place);
   const height = headerNumber(header, 'OBSGEO-H', place) ?? 0;
-  if (lat === undefined && lon === undefined) return undefined;
+  if (lat === undefined && lon === undefined) return siteFromGeocentric(header, place);
   if (lat === undefined || lon === undefined) {
     const missing = lat === undefined ? 'OBSGEO-B' : 'OBSGEO-L';
     throw new InputError('header.missing-key', `${missing} is missing while the other of OBSGEO-B/OBSGEO-L is given`, { ...place, key: missing });

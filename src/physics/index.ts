@@ -8,3 +8,4 @@ export * from './disk.js';
 export * from './mass.js';
 export * from './catalogues.js';
 export * from './line-groups.js';
+export * from './geodetic.js';

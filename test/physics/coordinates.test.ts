@@ -1,7 +1,16 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.js';
 import { Header } from '../../src/fits/header.js';
 import { midExposure, parseDeclination, parseRightAscension, siteFromHeader } from '../../src/physics/coordinates.js';
+import { geodeticFromGeocentric } from '../../src/physics/geodetic.js';
+
+// Outside reference: Debian python3-astropy Angle and EarthLocation (WGS84), fixtures/physics/make_coordinates.py.
+const fixture = JSON.parse(readFileSync(new URL('../../fixtures/physics/coordinates.json', import.meta.url), 'utf8')) as {
+  sites: { x: number; y: number; z: number; latitudeDeg: number; longitudeDeg: number; heightM: number }[];
+  rightAscension: { text: string; deg: number }[];
+  declination: { text: string; deg: number }[];
+};
 
 function inputError(f: () => unknown): InputError {
   try {
@@ -87,5 +96,35 @@ describe('midExposure (DATE-OBS, UTC, ISO 8601 as in FITS 4.0 section 4.4.2.1)',
     expect(() => midExposure('2019-02-30T00:00:00', 10)).toThrow(InputError);
     expect(() => midExposure('21/03/19', 10)).toThrow(InputError);
     expect(inputError(() => midExposure('2019-03-21T00:00:00', -1)).place.key).toBe('EXPTIME');
+  });
+});
+
+describe('sexagesimal parsing against astropy Angle', () => {
+  it('reads right ascensions as astropy does (hourangle) to 1e-9 deg', () => {
+    for (const r of fixture.rightAscension) expect(parseRightAscension(r.text)).toBeCloseTo(r.deg, 9);
+  });
+
+  it('reads declinations as astropy does to 1e-9 deg', () => {
+    for (const d of fixture.declination) expect(parseDeclination(d.text)).toBeCloseTo(d.deg, 9);
+  });
+});
+
+describe('geocentric OBSGEO-X/Y/Z to geodetic (WGS84) against astropy EarthLocation', () => {
+  it('agrees within 1e-9 deg and 1 mm, poles included', () => {
+    for (const s of fixture.sites) {
+      const g = geodeticFromGeocentric(s.x, s.y, s.z);
+      expect(g.latitudeDeg).toBeCloseTo(s.latitudeDeg, 9);
+      expect(g.longitudeDeg).toBeCloseTo(s.longitudeDeg, 9);
+      expect(Math.abs(g.heightM - s.heightM)).toBeLessThan(1e-3);
+    }
+  });
+
+  it('is used by siteFromHeader when OBSGEO-B/L are absent, and part of X/Y/Z is an InputError', () => {
+    const s = fixture.sites[1]!;
+    const site = siteFromHeader(new Header().set('OBSGEO-X', s.x).set('OBSGEO-Y', s.y).set('OBSGEO-Z', s.z))!;
+    expect(site.latitudeDeg).toBeCloseTo(s.latitudeDeg, 9);
+    expect(Math.abs(site.heightM - s.heightM)).toBeLessThan(1e-3);
+    expect(inputError(() => siteFromHeader(new Header().set('OBSGEO-X', s.x).set('OBSGEO-Z', s.z))).place.key).toBe('OBSGEO-Y');
+    expect(inputError(() => siteFromHeader(new Header().set('OBSGEO-X', 1).set('OBSGEO-Y', 2).set('OBSGEO-Z', 3))).code).toBe('header.out-of-range');
   });
 });
