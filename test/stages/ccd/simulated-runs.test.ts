@@ -1,0 +1,110 @@
+/**
+ * The CCD stage on simulated runs (src/sim) with known truth: injection and recovery.
+ * Outside references: the simulator's noiseless expected electrons and its list of injected
+ * cosmic-ray hits (truth.json), which the stage never sees.
+ */
+import { describe, expect, it } from 'vitest';
+import { calibratedRun } from './sim-run.js';
+import { expectedSum, grownSet, hitPixels, lineCorePixels } from './truth-pixels.js';
+import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
+import { DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
+import { MASK_BITS, type CalibratedFrame } from '../../../src/products/frame.js';
+import type { CcdCalibration } from '../../../src/stages/ccd/calibration.js';
+import type { SimulatedRun } from '../../../src/sim/index.js';
+
+/** Mean and std of (sci - truth / flat) / sqrt(VAR) over unmasked pixels not touched by the rejection. */
+function pulls(frame: CalibratedFrame, truth: Float32Array, cal: CcdCalibration): { mean: number; std: number; count: number } {
+  let s1 = 0;
+  let s2 = 0;
+  let k = 0;
+  for (let i = 0; i < truth.length; i++) {
+    if (frame.mask[i] || (frame.rejected && frame.rejected[i])) continue;
+    const z = (frame.sci[i]! - truth[i]! / cal.masterFlat[i]!) / Math.sqrt(frame.var[i]!);
+    s1 += z;
+    s2 += z * z;
+    k++;
+  }
+  const mean = s1 / k;
+  return { mean, std: Math.sqrt(s2 / k - mean * mean), count: k };
+}
+
+interface CosmicScore {
+  hits: number;
+  recall: number;
+  cores: number;
+  falseCoreFraction: number;
+}
+
+/** Recall of the injected hits (any mask bit, or left out of the combination) and false flags on line cores away from hits. */
+function cosmicScore(run: SimulatedRun, names: string[], frame: CalibratedFrame, cal: CcdCalibration): CosmicScore {
+  const flagged = (i: number): boolean => (frame.mask[i]! & MASK_BITS.cosmicRay) !== 0 || (frame.rejected !== undefined && frame.rejected[i]! > 0);
+  const hits = new Set<number>();
+  for (const name of names) for (const p of hitPixels(run, name, cal)) hits.add(p);
+  let found = 0;
+  for (const p of hits) if (flagged(p) || frame.mask[p]) found++;
+  const near = grownSet(hits, cal.width, cal.height);
+  const cores = lineCorePixels(expectedSum(run, names, cal), cal.width, cal.height, cal.readNoiseE);
+  let coreCount = 0;
+  let falseCores = 0;
+  for (const p of cores) {
+    if (near.has(p)) continue;
+    coreCount++;
+    if (flagged(p)) falseCores++;
+  }
+  return { hits: hits.size, recall: found / hits.size, cores: coreCount, falseCoreFraction: falseCores / coreCount };
+}
+
+for (const variant of ['standard', 'rotated'] as const) {
+  describe(`CCD stage on the simulator's ${variant} run`, () => {
+    const r = calibratedRun(variant);
+    const science = r.byKind('science');
+    const names = r.run.frames.filter((f) => f.kind === 'science').map((f) => f.name);
+    const setup = Object.values(r.run.truth.setups)[0]!;
+    const combined = calibrateScience(science, r.cal, DEFAULT_CCD_SETTINGS).product;
+    const single = calibrateScience([science[1]!], r.cal, DEFAULT_CCD_SETTINGS).product;
+
+    it('finds the dispersion axis from the arc (simulator truth: transpose for rotated)', () => {
+      expect(r.cal.orientation).toEqual({ transpose: setup.orientation.transpose, flipX: false });
+      expect([r.cal.width, r.cal.height]).toEqual([setup.internalWidth, setup.internalHeight]);
+    });
+
+    it('finds exactly the injected hot columns (trimmed raw x)', () => {
+      expect(r.cal.badColumns).toEqual([...setup.detector.hotColumns].sort((a, b) => a - b));
+    });
+
+    it('combined exposures: (sci - truth) / sqrt(VAR) has a standard deviation within 5% of 1', () => {
+      const p = pulls(combined, expectedSum(r.run, names, r.cal), r.cal);
+      expect(p.count).toBeGreaterThan(0.9 * r.cal.width * r.cal.height);
+      expect(Math.abs(p.std - 1)).toBeLessThan(0.05);
+      expect(Math.abs(p.mean)).toBeLessThan(0.1); // Poisson variance from the measured signal pulls low counts slightly low
+      expect(combined.exptimeS).toBe(r.run.truth.targets[0]!.exposures.reduce((a, e) => a + e.exptimeS, 0));
+    });
+
+    it('single exposure: (sci - truth) / sqrt(VAR) has a standard deviation within 5% of 1', () => {
+      const p = pulls(single, expectedSum(r.run, [names[1]!], r.cal), r.cal);
+      expect(Math.abs(p.std - 1)).toBeLessThan(0.05);
+    });
+
+    it('combined exposures: >= 95% of injected hits masked, < 0.1% of line-core pixels falsely masked', () => {
+      const s = cosmicScore(r.run, names, combined, r.cal);
+      expect(s.hits).toBeGreaterThan(100);
+      expect(s.recall).toBeGreaterThanOrEqual(0.95);
+      expect(s.cores).toBeGreaterThan(3000);
+      expect(s.falseCoreFraction).toBeLessThan(0.001);
+    });
+
+    it('rejects the pixels hit in two of three exposures from both (a median of three would keep them)', () => {
+      const hitsIn = names.map((n) => hitPixels(r.run, n, r.cal));
+      const twice = [...hitsIn[0]!].filter((p) => hitsIn[1]!.has(p) && !hitsIn[2]!.has(p));
+      expect(twice.length).toBeGreaterThanOrEqual(4);
+      for (const p of twice) expect(combined.rejected![p]).toBeGreaterThanOrEqual(2);
+    });
+
+    it('single exposure (van Dokkum Laplacian): >= 95% of injected hits masked, < 0.1% of line-core pixels falsely masked', () => {
+      const s = cosmicScore(r.run, [names[1]!], single, r.cal);
+      expect(s.hits).toBeGreaterThan(20);
+      expect(s.recall).toBeGreaterThanOrEqual(0.95);
+      expect(s.falseCoreFraction).toBeLessThan(0.001);
+    });
+  });
+}
