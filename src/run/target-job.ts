@@ -6,6 +6,7 @@
  */
 import { rmSync } from 'node:fs';
 import { join } from 'node:path';
+import { renderTargetReport } from '../report/target-report.js';
 import { VERSION } from '../version.js';
 import type { EventSink } from './events.js';
 import { describeFailure } from './failure.js';
@@ -13,6 +14,7 @@ import { writeFileAtomic } from './io/atomic.js';
 import { clearTargetState, readTargetState, writeTargetState } from './io/state.js';
 import { libraryVersions } from './io/versions.js';
 import type { ResolvedSetup, ResolvedTarget } from './manifest/resolve.js';
+import { targetReportInput } from './pipeline/report-input.js';
 import { runTargetStages, TARGET_STAGES } from './pipeline/target-stages.js';
 import { targetKeyNumbers, writeTargetProducts } from './pipeline/target-writes.js';
 import type { SetupCalibration } from './pipeline/setup-stages.js';
@@ -78,25 +80,23 @@ export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, 
   const previous = readTargetState<SummaryEntry>(job.outputDir, job.target.folder);
   clearTargetState(job.outputDir, job.target.folder);
   const timer = new StageTimer({ target: job.target.name }, TARGET_STAGES.length + 1, emit, now);
+  const provenance = {
+    whorlVersion: VERSION,
+    libraries: libraryVersions(),
+    target: job.target.name,
+    folder: job.target.folder,
+    cacheKey: job.key,
+    calibrationKey: job.setupKey,
+    inputs: job.inputs,
+    settings: { setup: job.setup, target: job.target, calibration: calibration.settings } as Record<string, unknown>,
+  };
+  const diagnostics = () => [...calibration.diagnostics, ...timer.diagnostics];
   let outcome: TargetOutcome;
   try {
     const products = runTargetStages(job, calibration, timer);
-    const files = timer.step('write', () => writeTargetProducts(job, calibration, products, timer.diagnostics));
-    const provenance = {
-      whorlVersion: VERSION,
-      libraries: libraryVersions(),
-      target: job.target.name,
-      folder: job.target.folder,
-      cacheKey: job.key,
-      calibrationKey: job.setupKey,
-      inputs: job.inputs,
-      settings: { setup: job.setup, target: job.target, stages: products.settings },
-      stagesMs: timer.ms,
-      startedUtc: started.toISOString(),
-      finishedUtc: new Date().toISOString(),
-    };
-    const provenanceFile = join(job.target.folder, 'provenance.json');
-    writeFileAtomic(join(job.outputDir, provenanceFile), `${JSON.stringify(provenance, null, 1)}\n`);
+    provenance.settings['stages'] = products.settings;
+    const files = timer.step('write', () => writeTargetProducts(job, calibration, products, diagnostics(), provenance));
+    const provenanceFile = writeProvenance(job, { ...provenance, stagesMs: timer.ms, startedUtc: started.toISOString(), finishedUtc: new Date().toISOString() });
     const entry: SummaryEntry = {
       name: job.target.name,
       folder: job.target.folder,
@@ -105,7 +105,7 @@ export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, 
       stages: timer.stagesRun,
       products: [...files, provenanceFile],
       numbers: targetKeyNumbers(products, calibration),
-      diagnostics: countDiagnostics([...calibration.diagnostics, ...timer.diagnostics]),
+      diagnostics: countDiagnostics(diagnostics()),
     };
     outcome = { entry, stageMs: timer.ms, seconds: (Date.now() - started.getTime()) / 1000, peakMemoryMb: timer.peakMemoryMb };
   } catch (e) {
@@ -114,10 +114,20 @@ export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, 
     outcome.peakMemoryMb = timer.peakMemoryMb;
     // A failed target keeps no products from an earlier run: they would no longer match its inputs.
     for (const p of previous?.entry.products ?? []) rmSync(join(job.outputDir, p), { force: true });
+    const report = join(job.target.folder, 'report.html');
+    writeFileAtomic(join(job.outputDir, report), renderTargetReport(targetReportInput(job, { solution: calibration.solution }, diagnostics(), provenance, reason)));
+    outcome.entry.products = [report, writeProvenance(job, { ...provenance, failure: { code, reason }, stagesMs: timer.ms, startedUtc: started.toISOString(), finishedUtc: new Date().toISOString() })];
+    outcome.entry.diagnostics = countDiagnostics(diagnostics());
   }
   const key = outcome.entry.status === 'ok' ? job.key : `failed:${job.key}`;
   writeTargetState(job.outputDir, job.target.folder, { key, products: outcome.entry.products, entry: outcome.entry });
   const done = { type: 'target-done', t: now(), target: job.target.name, status: outcome.entry.status, seconds: outcome.seconds } as const;
   emit(outcome.entry.reason !== undefined ? { ...done, status: 'failed', reason: outcome.entry.reason } : { ...done, status: 'ok' });
   return outcome;
+}
+
+function writeProvenance(job: TargetJob, provenance: Record<string, unknown>): string {
+  const file = join(job.target.folder, 'provenance.json');
+  writeFileAtomic(join(job.outputDir, file), `${JSON.stringify(provenance, null, 1)}\n`);
+  return file;
 }

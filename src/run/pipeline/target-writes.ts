@@ -6,14 +6,20 @@ import { join } from 'node:path';
 import type { Diagnostic } from '../../diagnostics.js';
 import { writeFits } from '../../fits/write.js';
 import { spectrumFits } from '../../products/writers/spectrum.js';
+import { renderTargetReport } from '../../report/target-report.js';
 import { VERSION } from '../../version.js';
 import { writeFileAtomic } from '../io/atomic.js';
 import type { KeyNumbers } from '../summary.js';
 import type { TargetJob } from '../target-job.js';
+import { targetReportInput } from './report-input.js';
 import type { SetupCalibration } from './setup-stages.js';
 import type { TargetProducts } from './target-stages.js';
 
-export function writeTargetProducts(job: TargetJob, cal: SetupCalibration, p: TargetProducts, diagnostics: readonly Diagnostic[]): string[] {
+/**
+ * `provenance` is the time-free part of provenance.json (inputs, settings, versions), shown in
+ * the report; the report must not hold times, so that reruns give identical bytes.
+ */
+export function writeTargetProducts(job: TargetJob, cal: SetupCalibration, p: TargetProducts, diagnostics: Diagnostic[], provenance: Record<string, unknown>): string[] {
   const files: string[] = [];
   const put = (name: string, data: string | Uint8Array) => {
     const rel = join(job.target.folder, name);
@@ -29,6 +35,7 @@ export function writeTargetProducts(job: TargetJob, cal: SetupCalibration, p: Ta
   const spectrum = spectrumFits(p.skySubtracted, p.solution, history);
   spectrum.primaryHeader.set('SKYSUB', true, 'sky model subtracted from SCI');
   put('spectrum.fits', writeFits(spectrum.hdus, { primaryHeader: spectrum.primaryHeader }));
+  put('report.html', renderTargetReport(targetReportInput(job, { frame: p.skySubtracted, solution: p.solution }, diagnostics, provenance)));
   return files;
 }
 
