@@ -1,0 +1,85 @@
+/** Mistakes in the inputs become InputErrors naming the file, keyword or manifest key (DEVELOPERS.md, two error channels). */
+import { describe, expect, it } from 'vitest';
+import { buildCalibration } from '../../../src/stages/ccd/build-calibration.js';
+import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
+import { DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
+import { formatSection, parseSection } from '../../../src/stages/ccd/section.js';
+import { InputError } from '../../../src/errors.js';
+import { arcSignal, flatSignal, syntheticFrame, type SyntheticOptions } from './synthetic.js';
+
+function calibrationFrames(o: SyntheticOptions = {}) {
+  return {
+    bias: [syntheticFrame('raw/b1.fits', () => 0, o), syntheticFrame('raw/b2.fits', () => 0, o)],
+    flat: [syntheticFrame('raw/f1.fits', flatSignal, o)],
+    arc: [syntheticFrame('raw/a1.fits', arcSignal, o)],
+  };
+}
+
+function caught(f: () => unknown): InputError {
+  try {
+    f();
+  } catch (e) {
+    if (e instanceof InputError) return e;
+    throw e;
+  }
+  throw new Error('no InputError thrown');
+}
+
+// Sections follow the DATASEC/BIASSEC convention: '[x1:x2,y1:y2]', 1-based inclusive, x first.
+describe('image sections', () => {
+  it("reads '[x1:x2,y1:y2]' as 0-based end-exclusive and writes it back", () => {
+    const s = parseSection('[ 3:10 , 2:5 ]', 20, 10, {});
+    expect(s).toEqual({ x0: 2, x1: 10, y0: 1, y1: 5 });
+    expect(formatSection(s)).toBe('[3:10,2:5]');
+  });
+  it('names the keyword of a section outside the frame or badly written', () => {
+    const e = caught(() => parseSection('[1:21,1:10]', 20, 10, { file: 'raw/x.fits', key: 'DATASEC' }));
+    expect(e.code).toBe('ccd.section-outside');
+    expect(e.place).toMatchObject({ file: 'raw/x.fits', key: 'DATASEC' });
+    expect(caught(() => parseSection('1:20,1:10', 20, 10, {})).code).toBe('ccd.section-syntax');
+    expect(caught(() => parseSection('[5:4,1:10]', 20, 10, {})).code).toBe('ccd.section-outside');
+  });
+});
+
+describe('calibration inputs', () => {
+  it('a missing gain names the file, the keyword GAIN and the manifest key `gain`', () => {
+    const e = caught(() => buildCalibration(calibrationFrames({ gain: null }), DEFAULT_CCD_SETTINGS));
+    expect(e.code).toBe('ccd.gain-missing');
+    expect(e.place).toMatchObject({ file: 'raw/b1.fits', key: 'GAIN' });
+    expect(e.message).toContain('`gain`');
+    expect(() => buildCalibration(calibrationFrames({ gain: null }), { ...DEFAULT_CCD_SETTINGS, gain: 1.5 })).not.toThrow();
+  });
+  it('a data section outside the frame is an error naming DATASEC', () => {
+    const e = caught(() => buildCalibration(calibrationFrames({ datasec: '[1:60,1:30]' }), DEFAULT_CCD_SETTINGS));
+    expect(e.code).toBe('ccd.section-outside');
+    expect(e.place.key).toBe('DATASEC');
+  });
+  it('no arc frames is an error', () => {
+    expect(caught(() => buildCalibration({ ...calibrationFrames(), arc: [] }, DEFAULT_CCD_SETTINGS)).code).toBe('ccd.no-arc');
+  });
+  it('a calibration frame of another shape names both files', () => {
+    const frames = calibrationFrames();
+    frames.flat.push(syntheticFrame('raw/f2.fits', flatSignal, { height: 31 }));
+    const e = caught(() => buildCalibration(frames, DEFAULT_CCD_SETTINGS));
+    expect(e.code).toBe('ccd.shape-mismatch');
+    expect(e.message).toContain('raw/f2.fits');
+    expect(e.message).toContain('raw/b1.fits');
+  });
+  it('a science frame of another shape or binning than the calibrations names both files', () => {
+    const cal = buildCalibration(calibrationFrames(), DEFAULT_CCD_SETTINGS).product;
+    const shape = caught(() => calibrateScience([syntheticFrame('raw/s1.fits', () => 50, { width: 41 })], cal, DEFAULT_CCD_SETTINGS));
+    expect(shape.code).toBe('ccd.shape-mismatch');
+    expect(shape.message).toMatch(/raw\/s1\.fits.*raw\/b1\.fits/);
+    const binning = caught(() => calibrateScience([syntheticFrame('raw/s2.fits', () => 50, { binning: '2 2' })], cal, DEFAULT_CCD_SETTINGS));
+    expect(binning.code).toBe('ccd.binning-mismatch');
+    expect(binning.message).toMatch(/raw\/s2\.fits.*raw\/b1\.fits/);
+  });
+  it('a science frame without an exposure time names EXPTIME', () => {
+    const cal = buildCalibration(calibrationFrames(), DEFAULT_CCD_SETTINGS).product;
+    const frame = syntheticFrame('raw/s3.fits', () => 50);
+    frame.header.delete('EXPTIME');
+    const e = caught(() => calibrateScience([frame], cal, DEFAULT_CCD_SETTINGS));
+    expect(e.code).toBe('ccd.exptime-invalid');
+    expect(e.place).toMatchObject({ file: 'raw/s3.fits', key: 'EXPTIME' });
+  });
+});
