@@ -7,7 +7,7 @@
 import { BaryState, Body, GeoMoonState, HelioState, KM_PER_AU, Observer, ObserverState } from 'astronomy-engine';
 import { SPEED_OF_LIGHT_KMS as C, GM_SUN_M3_S2 } from './constants.js';
 import type { Site } from './coordinates.js';
-import { precessToJ2000, unitVector } from './precession.js';
+import { precessToJ2000, equatorialUnitVector } from './precession.js';
 
 /** Where the telescope points. */
 export interface Pointing {
@@ -40,7 +40,7 @@ export function radialVelocityCorrection(time: Date, pointing: Pointing, site: S
   if (!Number.isFinite(time.getTime())) throw new RangeError('radialVelocityCorrection: invalid time');
   if (!Number.isFinite(pointing.raDeg) || !(pointing.decDeg >= -90 && pointing.decDeg <= 90)) throw new RangeError(`radialVelocityCorrection: invalid pointing ${pointing.raDeg}, ${pointing.decDeg} deg`);
   if (!(site.latitudeDeg >= -90 && site.latitudeDeg <= 90) || !Number.isFinite(site.longitudeDeg) || !Number.isFinite(site.heightM)) throw new RangeError('radialVelocityCorrection: invalid site');
-  const n = precessToJ2000(unitVector(pointing.raDeg, pointing.decDeg), pointing.equinox ?? 2000);
+  const n = precessToJ2000(equatorialUnitVector(pointing.raDeg, pointing.decDeg), pointing.equinox ?? 2000);
   const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.heightM);
   const topo = ObserverState(time, observer, false);
   const earth = frame === 'barycentric' ? BaryState(Body.Earth, time) : HelioState(Body.Earth, time);

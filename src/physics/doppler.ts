@@ -52,7 +52,19 @@ export function applyFrameCorrection(czObsKms: number, correctionKms: number): n
   return czObsKms + correctionKms + (czObsKms * correctionKms) / C;
 }
 
-/** Velocity (km/s) of a point with redshift cz relative to a system at cz_sys: c (z - z_sys)/(1 + z_sys). */
-export function relativeVelocity(czKms: number, czSysKms: number): number {
-  return (czKms - czSysKms) / (1 + czSysKms / C);
+/**
+ * Velocity (km/s) of a point relative to a system, both in one convention, from
+ * (1 + z_pec) = (1 + z)/(1 + z_sys): optical c (z - z_sys)/(1 + z_sys) (the default);
+ * relativistic (v - v_sys)/(1 - v v_sys / c^2), the relativistic subtraction; radio
+ * (v - v_sys)/(1 - v_sys/c).
+ */
+export function relativeVelocity(czKms: number, czSysKms: number, convention: Convention = 'optical'): number {
+  switch (convention) {
+    case 'optical':
+      return (czKms - czSysKms) / (1 + czSysKms / C);
+    case 'relativistic':
+      return (czKms - czSysKms) / (1 - (czKms * czSysKms) / (C * C));
+    case 'radio':
+      return (czKms - czSysKms) / (1 - czSysKms / C);
+  }
 }

@@ -9,7 +9,7 @@
 const ARCSEC_TO_RAD = Math.PI / 648000;
 
 /** Unit vector (x, y, z) of an equatorial direction. */
-export function unitVector(raDeg: number, decDeg: number): [number, number, number] {
+export function equatorialUnitVector(raDeg: number, decDeg: number): [number, number, number] {
   const a = (raDeg * Math.PI) / 180;
   const d = (decDeg * Math.PI) / 180;
   return [Math.cos(d) * Math.cos(a), Math.cos(d) * Math.sin(a), Math.sin(d)];

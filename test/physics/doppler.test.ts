@@ -64,4 +64,19 @@ describe('relativeVelocity', () => {
     expect(relativeVelocity(5200, 5000)).toBeCloseTo(200 / (1 + 5000 / 299792.458), 9);
     expect(relativeVelocity(5200, 5000)).toBeCloseTo(196.71908, 4);
   });
+
+  it('composes redshifts in every convention: (1 + z_pec) = (1 + z)/(1 + z_sys) (Wright & Eastman 2014)', () => {
+    // Wavelength ratios written out from the conventions of WCS Paper III (Greisen et al. 2006).
+    const c = 299792.458;
+    const ratio: Record<Convention, (v: number) => number> = {
+      optical: (v) => 1 + v / c,
+      radio: (v) => 1 / (1 - v / c),
+      relativistic: (v) => Math.sqrt((1 + v / c) / (1 - v / c)),
+    };
+    for (const conv of CONVENTIONS) {
+      const pec = relativeVelocity(30000, 29500, conv);
+      expect(ratio[conv](pec)).toBeCloseTo(ratio[conv](30000) / ratio[conv](29500), 12);
+    }
+    expect(relativeVelocity(30000, 29500, 'relativistic')).not.toBeCloseTo(relativeVelocity(30000, 29500), 1);
+  });
 });
