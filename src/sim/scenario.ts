@@ -8,16 +8,20 @@ export const SITE = { name: 'Greyfell Ridge Observatory', latitudeDeg: -27.431, 
 export const TELESCOPE = 'Greyfell 2.3m';
 export const INSTRUMENT = 'Skein long-slit spectrograph';
 
-/** Invented galaxy names (no catalogue designations) and sky positions observable in one April night. */
+/**
+ * Invented galaxy names (no catalogue designations) and sky positions, in the order they are
+ * observed: each right ascension is near the local sidereal time of its block in the night, so
+ * every target is observed close to the meridian.
+ */
 export const GALAXIES = [
-  { name: 'Halden Spiral', ra: '13:27:41.20', dec: '-18:44:07.0' },
-  { name: 'Orrin Disk', ra: '11:02:15.62', dec: '-31:10:52.4' },
-  { name: 'Maelis Galaxy', ra: '12:18:03.05', dec: '-07:25:30.9' },
-  { name: 'Serrat Wheel', ra: '14:05:57.81', dec: '-42:03:11.6' },
-  { name: 'Vantor Spiral', ra: '15:11:29.44', dec: '-22:47:45.2' },
-  { name: 'Quillon Disk', ra: '10:33:48.90', dec: '-12:58:03.3' },
-  { name: 'Emberly Galaxy', ra: '16:02:36.17', dec: '-35:36:20.8' },
-  { name: 'Tamsin Spiral', ra: '12:49:12.73', dec: '-26:14:59.1' },
+  { name: 'Halden Spiral', ra: '10:08:41.20', dec: '-18:44:07.0' },
+  { name: 'Orrin Disk', ra: '11:19:15.62', dec: '-31:10:52.4' },
+  { name: 'Maelis Galaxy', ra: '12:30:03.05', dec: '-07:25:30.9' },
+  { name: 'Serrat Wheel', ra: '13:41:57.81', dec: '-42:03:11.6' },
+  { name: 'Vantor Spiral', ra: '14:52:29.44', dec: '-22:47:45.2' },
+  { name: 'Quillon Disk', ra: '16:03:48.90', dec: '-12:58:03.3' },
+  { name: 'Emberly Galaxy', ra: '17:14:36.17', dec: '-35:36:20.8' },
+  { name: 'Tamsin Spiral', ra: '18:25:12.73', dec: '-26:14:59.1' },
 ] as const;
 
 /** Start of the night's first calibration (UTC); April 2019 at the site's longitude. */
