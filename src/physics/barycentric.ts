@@ -4,7 +4,7 @@
  * equator); the observer's motion from its Earth-rotation model. Sign convention as astropy's
  * `SkyCoord.radial_velocity_correction`: cz_true = applyFrameCorrection(cz_obs, correction).
  */
-import { BaryState, Body, GeoMoonState, HelioState, KM_PER_AU, Observer, ObserverState } from 'astronomy-engine';
+import { BaryState, Body, HelioState, KM_PER_AU, Observer, ObserverState } from 'astronomy-engine';
 import { SPEED_OF_LIGHT_KMS as C, GM_SUN_M3_S2 } from './constants.js';
 import type { Site } from './coordinates.js';
 import { precessToJ2000, equatorialUnitVector } from './precession.js';
@@ -18,9 +18,8 @@ export interface Pointing {
 }
 
 const KMS_PER_AU_DAY = KM_PER_AU / 86400;
-/** Earth's and the Moon's GM, m^3 s^-2 (IERS Conventions 2010 table 1.1; Moon from GM_E / 81.30057) [memory]. */
+/** Earth's GM, m^3 s^-2 (IERS Conventions 2010, table 1.1) [memory]. */
 const GM_EARTH_M3_S2 = 3.986004418e14;
-const GM_MOON_M3_S2 = GM_EARTH_M3_S2 / 81.30057;
 const C_M_S = C * 1000;
 
 type Vec = [number, number, number];
@@ -32,8 +31,9 @@ const dist = (a: Vec, b: Vec): number => Math.hypot(a[0] - b[0], a[1] - b[1], a[
  * target at `pointing` seen from `site`.
  * - barycentric: Wright & Eastman (2014, PASP 126, 838) eq. 28 without the Shapiro delay and the
  *   target's own motion: z_B = gamma (1 + beta.n) / (1 + Phi/c^2) - 1, with the observer's
- *   barycentric velocity beta c and the Newtonian potential Phi = -sum GM/r (< 0) of the Sun,
- *   Earth and Moon at the observer (together ~ +0.0045 km/s; Jupiter's 0.0006 m/s is left out).
+ *   barycentric velocity beta c and the Newtonian potential Phi = -sum GM/r (< 0) of the Sun and
+ *   the Earth at the observer (gamma and Phi together ~ +0.005 km/s; the Moon's and Jupiter's
+ *   terms, below 0.001 m/s, are left out).
  * - heliocentric: the classical projection of the observer's heliocentric velocity, beta.n c.
  */
 export function radialVelocityCorrection(time: Date, pointing: Pointing, site: Site, frame: 'barycentric' | 'heliocentric' = 'barycentric'): number {
@@ -53,9 +53,7 @@ export function radialVelocityCorrection(time: Date, pointing: Pointing, site: S
   const sunBary = BaryState(Body.Sun, time);
   const sun: Vec = [sunBary.x * auM, sunBary.y * auM, sunBary.z * auM];
   const earthPos: Vec = [earth.x * auM, earth.y * auM, earth.z * auM];
-  const moonGeo = GeoMoonState(time);
-  const moon: Vec = [earthPos[0] + moonGeo.x * auM, earthPos[1] + moonGeo.y * auM, earthPos[2] + moonGeo.z * auM];
-  const wellDepth = GM_SUN_M3_S2 / dist(obs, sun) + GM_EARTH_M3_S2 / dist(obs, earthPos) + GM_MOON_M3_S2 / dist(obs, moon);
+  const wellDepth = GM_SUN_M3_S2 / dist(obs, sun) + GM_EARTH_M3_S2 / dist(obs, earthPos);
   const gamma = 1 / Math.sqrt(1 - dot(beta, beta));
   const zB = (gamma * (1 + dot(beta, n))) / (1 - wellDepth / (C_M_S * C_M_S)) - 1;
   return zB * C;
