@@ -60,7 +60,7 @@ export interface BinFit {
   data: Float32Array;
   error: Float32Array;
   model: Float32Array;
-  /** Pixels excluded from the fit (masked). */
+  /** Pixels left out of the fit (masked, or the core of another catalogue line). */
   excluded: Uint8Array;
 }
 

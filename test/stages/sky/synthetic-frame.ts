@@ -52,8 +52,9 @@ export interface SyntheticFrame {
   /** True sky (e) per pixel and true galaxy (e) per pixel. */
   sky: Float32Array;
   galaxy: Float32Array;
-  /** Per row: true line-of-sight velocity (optical, km/s) of the gas. */
+  /** Per row: true line-of-sight velocity (optical, km/s) of the gas, and its H-alpha flux (e). */
   vLos: Float64Array;
+  halphaFlux: Float64Array;
   options: Required<Omit<SyntheticOptions, 'skyLines'>> & { skyLines: { wavelength: number; flux: number }[] };
 }
 
@@ -78,6 +79,7 @@ export function makeSyntheticFrame(opts: SyntheticOptions = {}): SyntheticFrame 
   const sky = new Float32Array(W * H);
   const galaxy = new Float32Array(W * H);
   const vLos = new Float64Array(H);
+  const halphaFlux = new Float64Array(H);
   for (let y = 0; y < H; y++) {
     const g = 1 + (o.skyGradient * (y - H / 2)) / H;
     const row = y * W;
@@ -93,6 +95,7 @@ export function makeSyntheticFrame(opts: SyntheticOptions = {}): SyntheticFrame 
     vLos[y] = v;
     if (Math.abs(dy) > o.emissionHalfRows) continue;
     const fHa = o.halphaFlux * Math.exp(-Math.abs(dy) / o.emissionScaleRows);
+    halphaFlux[y] = fHa;
     const lines: [number, number][] = [[REST.Halpha, fHa], [REST.NII6583, fHa * o.niiRatio], [REST.NII6548, (fHa * o.niiRatio) / 3]];
     const galRow = new Float32Array(W);
     for (const [rest, flux] of lines) {
@@ -119,8 +122,9 @@ export function makeSyntheticFrame(opts: SyntheticOptions = {}): SyntheticFrame 
   const solution: WavelengthSolution = {
     width: W, height: H, wave,
     model: { kind: 'legendre2d', xOrder: 1, yOrder: 1, xMin: 0, xMax: W - 1, yMin: 0, yMax: H - 1, coeffs: [lambdaAt((W - 1) / 2, (H - 1) / 2), (o.dispersion * (W - 1)) / 2, (o.dispersion * o.tiltPx * (H - 1)) / (2 * H), 0] },
-    lsfSigmaPx: { kind: 'legendre2d', xOrder: 0, yOrder: 0, xMin: 0, xMax: W - 1, yMin: 0, yMax: H - 1, coeffs: [o.lsfPx] },
+    // What an arc fit with a point-sampled Gaussian measures for a pixel-integrated line: sigma^2 + 1/12 px^2.
+    lsfSigmaPx: { kind: 'legendre2d', xOrder: 0, yOrder: 0, xMin: 0, xMax: W - 1, yMin: 0, yMax: H - 1, coeffs: [Math.sqrt(o.lsfPx ** 2 + 1 / 12)] },
     flipX: false, lines: [], rmsAngstrom: 0, rmsPx: 0, rmsKms: 0, identifiedRange: [wave[0]!, wave[W - 1]!], flexure: null,
   };
-  return { frame, solution, sky, galaxy, vLos, options: o };
+  return { frame, solution, sky, galaxy, vLos, halphaFlux, options: o };
 }

@@ -1,0 +1,112 @@
+/**
+ * One Levenberg-Marquardt fit of a tied line group to one window of a bin's spectrum, with
+ * bounds on the centre (velocity tolerance), width (instrumental to maximum dispersion) and
+ * fluxes (>= 0), errors from (J^T W J)^-1 at the solution.
+ */
+import { levenbergMarquardt } from '../../kernels/levenberg-marquardt.js';
+import { GroupModel, type GroupSpec } from './group-model.js';
+
+export interface Window {
+  /** Wavelength (Angstrom, air) and width (Angstrom) of each pixel. */
+  wave: Float64Array;
+  pixelWidth: Float64Array;
+  /** Data (electrons) and weights (1 / variance; 0 excludes the pixel). */
+  data: Float64Array;
+  weight: Float64Array;
+}
+
+export interface GroupGuess {
+  /** Observed centre of members[0] (Angstrom) and its observed sigma (Angstrom). */
+  centre: number;
+  sigma: number;
+  /** Free fluxes (electrons), one per free flux parameter. */
+  fluxes: number[];
+  c0: number;
+}
+
+export interface GroupFitOptions {
+  centreRange: [number, number];
+  sigmaRange: [number, number];
+  /** Hold the sigma of members[0] at this value (Angstrom). */
+  fixedSigma?: number;
+  scaleByChi2: boolean;
+}
+
+export interface GroupFit {
+  centre: number;
+  centreErr: number;
+  sigma: number;
+  /** 0 when the sigma is held. */
+  sigmaErr: number;
+  /** Per member: flux and error (electrons). */
+  flux: number[];
+  fluxErr: number[];
+  chi2: number;
+  dof: number;
+  converged: boolean;
+  /** Centre or sigma on a bound; per member: its free flux on its bound (0). */
+  shapeAtBound: boolean;
+  fluxAtBound: boolean[];
+  /** Model at each window pixel. */
+  model: Float64Array;
+}
+
+export function fitGroup(win: Window, spec: GroupSpec, guess: GroupGuess, options: GroupFitOptions): GroupFit {
+  const m = win.wave.length;
+  const lambdaRef = 0.5 * (win.wave[0]! + win.wave[m - 1]!);
+  const model = new GroupModel(spec, win.pixelWidth, lambdaRef, options.fixedSigma);
+  const n = model.nParams;
+  const start = new Float64Array(n);
+  const lower = new Float64Array(n).fill(-Infinity);
+  const upper = new Float64Array(n).fill(Infinity);
+  start[0] = guess.centre;
+  [lower[0], upper[0]] = options.centreRange;
+  const held = options.fixedSigma !== undefined;
+  if (!held) {
+    start[1] = Math.min(Math.max(guess.sigma, options.sigmaRange[0]), options.sigmaRange[1]);
+    [lower[1], upper[1]] = options.sigmaRange;
+  }
+  for (let j = 0; j < spec.nFree; j++) {
+    start[model.fluxStart + j] = Math.max(guess.fluxes[j] ?? 0, 0);
+    lower[model.fluxStart + j] = 0;
+  }
+  start[model.c0Index] = guess.c0;
+  const r = levenbergMarquardt(model, win.wave, win.data, win.weight, start, { lower, upper });
+  const scale = options.scaleByChi2 ? chi2Scale(r.chi2, r.dof) : 1;
+  const err = (k: number): number => Math.sqrt(r.covariance[k * n + k]!) * scale;
+  const flux: number[] = [];
+  const fluxErr: number[] = [];
+  const fluxAtBound: boolean[] = [];
+  spec.members.forEach((_, k) => {
+    const fi = model.fluxStart + spec.fluxIndex[k]!;
+    flux.push(spec.fluxFactor[k]! * r.params[fi]!);
+    fluxErr.push(spec.fluxFactor[k]! * err(fi));
+    fluxAtBound.push(r.atBound[fi]!);
+  });
+  const out = new Float64Array(m);
+  model.evaluate(r.params, win.wave, out, new Float64Array(m * n));
+  return {
+    centre: r.params[0]!,
+    centreErr: err(0),
+    sigma: held ? options.fixedSigma! : r.params[1]!,
+    sigmaErr: held ? 0 : err(1),
+    flux,
+    fluxErr,
+    chi2: r.chi2,
+    dof: r.dof,
+    converged: r.converged,
+    shapeAtBound: r.atBound[0]! || (!held && r.atBound[1]!),
+    fluxAtBound,
+    model: out,
+  };
+}
+
+/**
+ * sqrt(chi2/dof) when chi2/dof exceeds its 3-sigma noise range 1 + 3 sqrt(2/dof) (a misfit the
+ * errors should admit), else 1: scaling by every upward fluctuation would inflate honest errors.
+ */
+export function chi2Scale(chi2: number, dof: number): number {
+  if (!(dof > 0)) return 1;
+  const reduced = chi2 / dof;
+  return reduced > 1 + 3 * Math.sqrt(2 / dof) ? Math.sqrt(reduced) : 1;
+}
