@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { radialVelocityCorrection } from '../../src/physics/barycentric.js';
 
@@ -75,5 +76,26 @@ describe("the Earth's rotation in radialVelocityCorrection", () => {
     expect(() => radialVelocityCorrection(new Date('nope'), { raDeg: 0, decDeg: 0 }, site)).toThrow(RangeError);
     expect(() => radialVelocityCorrection(new Date(), { raDeg: 0, decDeg: 100 }, site)).toThrow(RangeError);
     expect(() => radialVelocityCorrection(new Date(), { raDeg: 0, decDeg: 0 }, { ...site, latitudeDeg: NaN })).toThrow(RangeError);
+  });
+});
+
+describe('bounds of the barycentric correction', () => {
+  const site = { latitudeDeg: 28.76, longitudeDeg: -17.88, heightM: 2330 };
+
+  it('stays within 30.3 km/s (orbit, REFERENCE.md) + 0.47 km/s (rotation) for any date and target (seeded)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: Date.UTC(2000, 0, 1), max: Date.UTC(2040, 0, 1) }), fc.double({ min: 0, max: 359.999, noNaN: true }), fc.double({ min: -90, max: 90, noNaN: true }), (ms, ra, dec) => {
+        expect(Math.abs(radialVelocityCorrection(new Date(ms), { raDeg: ra, decDeg: dec }, site))).toBeLessThan(30.3 + 0.47);
+      }),
+      { seed: 42, numRuns: 300 },
+    );
+  });
+
+  it('is below 0.5 km/s all year towards the ecliptic pole (obliquity 23.4393 deg, IAU 2006) [the orbit lies in the ecliptic]', () => {
+    // North ecliptic pole: RA 18h, Dec 90 - 23.4393 deg.
+    for (let day = 0; day < 365; day += 7) {
+      const t = new Date(Date.UTC(2020, 0, 1) + day * 86400e3);
+      expect(Math.abs(radialVelocityCorrection(t, { raDeg: 270, decDeg: 90 - 23.4393 }, site))).toBeLessThan(0.5);
+    }
   });
 });
