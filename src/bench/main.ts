@@ -1,0 +1,122 @@
+/**
+ * `npm run bench`: simulate (once, cached under ./bench-cache/) a full-size run and reduce it end
+ * to end on one core, with wall time and peak memory per stage; then the rows of every area's
+ * `bench<Area>(ctx)` (src/bench/<area>.ts, found at run time), and the batch figures of issue 8
+ * on a 4-target small run (--jobs 2 against --jobs 1, a rerun with nothing changed, memory per worker).
+ */
+import { readdirSync, rmSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import type { RunEvent } from '../run/events.js';
+import { deepFreeze, loadManifest, type ResolvedRun } from '../run/manifest/resolve.js';
+import { reduceRun } from '../run/runner.js';
+import { VERSION } from '../version.js';
+import { RssPeak } from './harness/rss-peak.js';
+import { cachedSimulatedRun } from './harness/sim-cache.js';
+import { formatBenchTable } from './harness/table.js';
+import type { BenchContext, BenchRow } from './types.js';
+
+const CACHE = resolve('bench-cache');
+/** Goals from issue 3 and issue 8. */
+const PIPELINE_TARGET_MS = 5000;
+const PIPELINE_TARGET_MB = 1024;
+const SPEEDUP_TARGET = 1.7;
+const RERUN_TARGET_MS = 2000;
+
+/** The run with its products sent to a scratch folder (the cached raw data stay untouched). */
+function withOutput(run: ResolvedRun, outputDir: string): ResolvedRun {
+  return deepFreeze({ ...run, outputDir });
+}
+
+async function pipelineRows(runDir: string, scratch: string): Promise<BenchRow[]> {
+  const run = withOutput(loadManifest(join(runDir, 'run.yaml')), join(scratch, 'full'));
+  const rss = new RssPeak();
+  const peaks = new Map<string, number>();
+  let open: string | undefined;
+  const close = () => {
+    if (open !== undefined) peaks.set(open, Math.max(peaks.get(open) ?? 0, rss.take()));
+    open = undefined;
+  };
+  const onEvent = (e: RunEvent) => {
+    if (e.type === 'stage') {
+      close();
+      open = e.stage;
+    } else if (e.type === 'setup-done' || e.type === 'target-done') close();
+  };
+  rss.take();
+  const t0 = performance.now();
+  const result = await reduceRun(run, { jobs: 1, force: true, onEvent });
+  const totalMs = performance.now() - t0;
+  close();
+  const totalPeak = Math.max(...peaks.values(), rss.take());
+  await rss.stop();
+  const rows: BenchRow[] = [];
+  for (const ms of Object.values(result.setupMs)) {
+    for (const [stage, wall] of Object.entries(ms)) rows.push({ name: `reduce: ${stage}`, wallMs: wall, peakRssMb: peaks.get(stage) ?? 0 });
+  }
+  for (const o of result.outcomes.values()) {
+    for (const [stage, wall] of Object.entries(o.stageMs)) rows.push({ name: `reduce: ${stage}`, wallMs: wall, peakRssMb: peaks.get(stage) ?? 0 });
+  }
+  const failed = result.summary.targets.filter((t) => t.status === 'failed');
+  const sci = run.targets.reduce((n, t) => n + t.frames.length, 0);
+  rows.push({
+    name: `reduce: whole full-size run, --jobs 1 (${sci} science frames${failed.length ? `, ${failed.length} target(s) FAILED: ${failed[0]!.reason ?? ''}` : ''})`,
+    wallMs: totalMs,
+    peakRssMb: totalPeak,
+    figure: `stages: ${[...new Set(result.summary.targets.flatMap((t) => t.stages))].join(', ')}`,
+    target: `< ${PIPELINE_TARGET_MS} ms, < ${PIPELINE_TARGET_MB} MB`,
+  });
+  return rows;
+}
+
+/** Every `bench*` function exported by the other files of this folder, in file-name order. */
+async function areaRows(ctx: BenchContext): Promise<BenchRow[]> {
+  const here = fileURLToPath(new URL('.', import.meta.url));
+  const files = readdirSync(here).filter((f) => f.endsWith('.js') && f !== 'main.js' && f !== 'types.js').sort();
+  const rows: BenchRow[] = [];
+  for (const f of files) {
+    const mod = (await import(pathToFileURL(join(here, f)).href)) as Record<string, unknown>;
+    for (const [name, fn] of Object.entries(mod)) {
+      if (!name.startsWith('bench') || typeof fn !== 'function') continue;
+      try {
+        rows.push(...(await (fn as (c: BenchContext) => Promise<BenchRow[]> | BenchRow[])(ctx)));
+      } catch (e) {
+        rows.push({ name: `${f}: ${name} FAILED: ${(e as Error).message}`, wallMs: NaN });
+      }
+    }
+  }
+  return rows;
+}
+
+async function batchRows(scratch: string): Promise<BenchRow[]> {
+  const four = cachedSimulatedRun(CACHE, { size: 'small', targets: 4 });
+  const base = loadManifest(join(four.dir, 'run.yaml'));
+  const timed = async (jobs: number, out: string, force: boolean) => {
+    const t0 = performance.now();
+    const r = await reduceRun(withOutput(base, join(scratch, out)), { jobs, force });
+    return { ms: performance.now() - t0, r };
+  };
+  const one = await timed(1, 'four-j1', true);
+  const two = await timed(2, 'four-j2', true);
+  const rerun = await timed(2, 'four-j2', false);
+  const workerPeak = Math.max(...[...two.r.outcomes.values()].map((o) => o.peakMemoryMb));
+  const speedup = one.ms / two.ms;
+  return [
+    { name: 'batch: 4-target small run, --jobs 1', wallMs: one.ms },
+    { name: 'batch: 4-target small run, --jobs 2', wallMs: two.ms, figure: `${speedup.toFixed(2)}x faster than --jobs 1`, target: `>= ${SPEEDUP_TARGET}x on 2 cores` },
+    { name: 'batch: rerun with nothing changed', wallMs: rerun.ms, figure: `${rerun.r.cached.length} of ${base.targets.length} targets reused`, target: `< ${RERUN_TARGET_MS} ms` },
+    { name: 'batch: peak memory of one worker (V8 heap + array buffers)', wallMs: NaN, peakRssMb: workerPeak },
+  ];
+}
+
+async function main(): Promise<void> {
+  const scratch = join(CACHE, 'scratch');
+  rmSync(scratch, { recursive: true, force: true });
+  const full = cachedSimulatedRun(CACHE, { size: 'full' });
+  const out = (s: string) => process.stdout.write(s);
+  out(`whorl ${VERSION} benchmark, node ${process.versions.node}, full-size run ${full.simulatedSeconds > 0 ? `simulated in ${full.simulatedSeconds.toFixed(1)} s` : 'from the cache'} (${full.dir})\n`);
+  const rows = [...(await pipelineRows(full.dir, scratch)), ...(await areaRows({ runDir: full.dir, scratchDir: scratch })), ...(await batchRows(scratch))];
+  out(formatBenchTable(rows));
+}
+
+await main();
