@@ -90,7 +90,7 @@ export interface CurvePoint {
   errSys: number;
   /** Statistical and systematic errors in quadrature. */
   errTotal: number;
-  /** Half the difference between the sides (common practice); 0 when one-sided. */
+  /** Half the difference between the sides at the same radius (common practice; the slope over the gap between their mean radii removed); 0 when one-sided. */
   errAsymmetry: number;
   /** vRot cot(i) sigma_i (sigma_i in radians). */
   errInclination: number;

@@ -53,7 +53,7 @@ function describe(curve: RotationCurve): string[] {
     `v_sys ${fixed(curve.vSys, 2)} +- ${fixed(curve.vSysErr, 2)} km/s (${curve.vSysSource}); kinematic centre at row ${fixed(curve.centreRow + 1, 2)} +- ${fixed(curve.centreRowErr, 2)} (1-based, ${curve.centreSource})`,
     `inclination ${fixed(g.inclinationDeg, 2)} +- ${fixed(g.inclinationErrDeg, 2)} deg (${g.inclinationSource === 'given' ? 'given' : `Hubble 1926 from b/a = ${g.axisRatio}, q0 = ${g.intrinsicThickness}`}); major axis PA ${fixed(g.majorAxisPaDeg, 2)} deg, slit PA ${fixed(g.slitPaDeg, 2)} deg`,
     `distance ${fixed(g.distanceMpc, 3)} Mpc (${fixed(g.kpcPerArcsec, 6)} kpc/arcsec); plate scale ${fixed(g.arcsecPerPixel, 4)} arcsec/pixel`,
-    `errors: err_stat = 1/sqrt(sum of weights); err_asymmetry = half the difference of the sides (common practice; 0 when one-sided); err_inclination = v_rot cot(i) sigma_i; err_sys = asymmetry and inclination in quadrature; err_total = stat and sys in quadrature`,
+    `errors: err_stat = 1/sqrt(sum of weights); err_asymmetry = half the difference of the sides at the same radius (common practice; 0 when one-sided); err_inclination = v_rot cot(i) sigma_i; err_sys = asymmetry and inclination in quadrature; err_total = stat and sys in quadrature`,
     `mass_msun = v_rot^2 r / G (spherical); log_slope = d ln V / d ln R; shape: ${curve.shapeSummary}`,
   ];
 }
