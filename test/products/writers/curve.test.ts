@@ -30,7 +30,7 @@ describe('curve.csv', () => {
     const all = csv.comments.join('\n');
     expect(all).toMatch(/v_sys 4\d\d\d\.\d\d \+- \d+\.\d\d km\/s/);
     expect(all).toMatch(/inclination 55\.00 \+- 2\.00 deg/);
-    expect(all).toMatch(/half the difference of the sides \(common practice/);
+    expect(all).toMatch(/half the difference of the sides at the same radius \(common practice/);
     expect(all).toMatch(/optical convention, barycentric/);
   });
 
