@@ -75,6 +75,22 @@ describe('Rng', () => {
     }
   });
 
+  it('draws normals that pass a chi-square test against scipy.special.ndtr bin probabilities, tails included (p > 0.001)', () => {
+    const { edges, p } = REFERENCE.normalBins;
+    const r = new Rng(streamSeed(9, 'normal-bins'));
+    const n = 1_000_000;
+    const counts = new Array<number>(p.length).fill(0);
+    const step = edges[1]! - edges[0]!;
+    for (let i = 0; i < n; i++) {
+      const z = r.normal();
+      const k = z < edges[0]! ? 0 : Math.min(p.length - 1, 1 + Math.floor((z - edges[0]!) / step));
+      counts[k]!++;
+    }
+    const { chi2, dof } = chiSquare(counts, p, n);
+    expect(dof).toBeGreaterThan(30);
+    expect(chi2).toBeLessThan(REFERENCE.chi2ppf999[String(dof)]!);
+  });
+
   for (const lambda of ['0.7', '3.0', '12.5', '39.0']) {
     it(`draws Poisson(${lambda}) counts that pass a chi-square test against scipy.stats.poisson.pmf (p > 0.001)`, () => {
       const pmf = REFERENCE.poissonPmf[lambda]!;

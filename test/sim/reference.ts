@@ -7,6 +7,8 @@ export interface SimReference {
   poissonPmf: Record<string, number[]>;
   chi2ppf999: Record<string, number>;
   normalTail: Record<string, number>;
+  /** Bin probabilities of N(0, 1): bins (-inf, e0), [e0, e1), ..., [e_last, inf). */
+  normalBins: { edges: number[]; p: number[] };
   barycentric: { source: string; site: { latitudeDeg: number; longitudeDeg: number; heightM: number }; ra: string; dec: string; midExposureUtc: string[]; kms: number[] };
 }
 
