@@ -21,18 +21,27 @@ const BLEND_SIGMAS = 4;
 /** A fitted width outside this factor of the instrumental width is not a clean sky line (common practice). */
 const WIDTH_FACTOR = 2;
 
+/** Stacked pixels per wavelength bin: a tenth of a pixel wide, so the binning cannot move a centroid (common practice). */
+const BINS_PER_PIXEL = 10;
+
 interface Stack {
+  /** Inverse-variance-weighted mean wavelength, value and total weight of each non-empty bin. */
   x: Float64Array;
   y: Float64Array;
   w: Float64Array;
 }
 
-/** Pixels of the sky rows whose wavelength lies within `half` Angstrom of `centre` (row wavelengths increase with x). */
-function stackAround(frame: CalibratedFrame, wave: Float64Array, sky: Uint8Array, centre: number, half: number): Stack {
+/**
+ * Pixels of the sky rows whose wavelength lies within `half` Angstrom of `centre` (row
+ * wavelengths increase with x), stacked into narrow wavelength bins by inverse-variance weights.
+ */
+function stackAround(frame: CalibratedFrame, wave: Float64Array, sky: Uint8Array, centre: number, half: number, binAngstrom: number): Stack {
   const { width, height } = frame;
-  const xs: number[] = [];
-  const ys: number[] = [];
-  const ws: number[] = [];
+  const nBins = Math.max(1, Math.ceil((2 * half) / binAngstrom));
+  const sw = new Float64Array(nBins);
+  const swx = new Float64Array(nBins);
+  const swy = new Float64Array(nBins);
+  const start = centre - half;
   for (let row = 0; row < height; row++) {
     if (!sky[row]) continue;
     const base = row * width;
@@ -40,19 +49,32 @@ function stackAround(frame: CalibratedFrame, wave: Float64Array, sky: Uint8Array
     let hi = width;
     while (lo < hi) {
       const mid = (lo + hi) >> 1;
-      if (wave[base + mid]! < centre - half) lo = mid + 1;
+      if (wave[base + mid]! < start) lo = mid + 1;
       else hi = mid;
     }
     for (let x = lo; x < width && wave[base + x]! <= centre + half; x++) {
       const i = base + x;
       const v = frame.var[i]!;
       if (frame.mask[i] !== 0 || !(v > 0)) continue;
-      xs.push(wave[i]!);
-      ys.push(frame.sci[i]!);
-      ws.push(1 / v);
+      const b = Math.min(nBins - 1, Math.floor((wave[i]! - start) / binAngstrom));
+      const w = 1 / v;
+      sw[b] += w;
+      swx[b] += w * wave[i]!;
+      swy[b] += w * frame.sci[i]!;
     }
   }
-  return { x: Float64Array.from(xs), y: Float64Array.from(ys), w: Float64Array.from(ws) };
+  let n = 0;
+  for (let b = 0; b < nBins; b++) if (sw[b]! > 0) n++;
+  const out: Stack = { x: new Float64Array(n), y: new Float64Array(n), w: new Float64Array(n) };
+  let k = 0;
+  for (let b = 0; b < nBins; b++) {
+    if (!(sw[b]! > 0)) continue;
+    out.x[k] = swx[b]! / sw[b]!;
+    out.y[k] = swy[b]! / sw[b]!;
+    out.w[k] = sw[b]!;
+    k++;
+  }
+  return out;
 }
 
 export function measureFlexure(science: CalibratedFrame, solution: WavelengthSolution, skyLines: SkyLine[], settings: FlexureSettings): StageResult<WavelengthSolution> {
@@ -79,7 +101,7 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
   const nSky = sky.reduce((a, b) => a + b, 0);
   const lines: FlexureMeasurement['lines'] = [];
   for (const line of candidates) {
-    const s = stackAround(science, solution.wave, sky, line.wavelength, half);
+    const s = stackAround(science, solution.wave, sky, line.wavelength, half, Math.abs(dispersion) / BINS_PER_PIXEL);
     if (s.x.length < 8) continue;
     let base = Infinity;
     let peak = -Infinity;
