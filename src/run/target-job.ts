@@ -11,12 +11,12 @@ import { VERSION } from '../version.js';
 import type { EventSink } from './events.js';
 import { describeFailure } from './failure.js';
 import { writeFileAtomic } from './io/atomic.js';
-import { clearTargetState, readTargetState, writeTargetState } from './io/state.js';
+import { clearTargetState, readTargetState, writeTargetState, type CurveThumbnail } from './io/state.js';
 import { libraryVersions } from './io/versions.js';
 import type { ResolvedSetup, ResolvedTarget } from './manifest/resolve.js';
 import { targetReportInput } from './pipeline/report-input.js';
 import { runTargetStages, TARGET_STAGES } from './pipeline/target-stages.js';
-import { targetKeyNumbers, writeTargetProducts } from './pipeline/target-writes.js';
+import { curveThumbnail, targetKeyNumbers, writeTargetProducts } from './pipeline/target-writes.js';
 import type { SetupCalibration } from './pipeline/setup-stages.js';
 import { StageTimer } from './pipeline/timer.js';
 import { countDiagnostics, type SummaryEntry } from './summary.js';
@@ -51,6 +51,7 @@ export interface TargetOutcome {
   seconds: number;
   /** Peak V8 heap plus array buffers of the thread that ran it, MB (sampled at stage boundaries). */
   peakMemoryMb: number;
+  thumbnail?: CurveThumbnail;
 }
 
 export function failedOutcome(job: TargetJob, code: string, reason: string, stageMs: Record<string, number>): TargetOutcome {
@@ -107,7 +108,7 @@ export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, 
       numbers: targetKeyNumbers(products, calibration),
       diagnostics: countDiagnostics(diagnostics()),
     };
-    outcome = { entry, stageMs: timer.ms, seconds: (Date.now() - started.getTime()) / 1000, peakMemoryMb: timer.peakMemoryMb };
+    outcome = { entry, stageMs: timer.ms, seconds: (Date.now() - started.getTime()) / 1000, peakMemoryMb: timer.peakMemoryMb, thumbnail: curveThumbnail(products) };
   } catch (e) {
     const [code, reason] = describeFailure(e);
     outcome = failedOutcome(job, code, reason, timer.ms);
@@ -120,7 +121,7 @@ export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, 
     outcome.entry.diagnostics = countDiagnostics(diagnostics());
   }
   const key = outcome.entry.status === 'ok' ? job.key : `failed:${job.key}`;
-  writeTargetState(job.outputDir, job.target.folder, { key, products: outcome.entry.products, entry: outcome.entry });
+  writeTargetState(job.outputDir, job.target.folder, { key, products: outcome.entry.products, entry: outcome.entry, ...(outcome.thumbnail ? { thumbnail: outcome.thumbnail } : {}) });
   const done = { type: 'target-done', t: now(), target: job.target.name, status: outcome.entry.status, seconds: outcome.seconds } as const;
   emit(outcome.entry.reason !== undefined ? { ...done, status: 'failed', reason: outcome.entry.reason } : { ...done, status: 'ok' });
   return outcome;

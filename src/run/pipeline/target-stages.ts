@@ -5,29 +5,39 @@
  */
 import type { CalibratedFrame } from '../../products/frame.js';
 import { flipFrameX } from '../../products/orientation.js';
-import type { SkyModel } from '../../products/lines.js';
+import type { RotationCurve, VelocityTable } from '../../products/curve.js';
+import type { LineTable, SkyModel } from '../../products/lines.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
 import { skyLines } from '../../physics/catalogues.js';
 import { measureFlexure } from '../../stages/arc/flexure.js';
 import { DEFAULT_FLEXURE_SETTINGS, type FlexureSettings } from '../../stages/arc/settings.js';
 import { calibrateScience } from '../../stages/ccd/calibrate-science.js';
+import { buildRotationCurve } from '../../stages/geometry/build.js';
+import type { GeometryInput } from '../../stages/geometry/settings.js';
+import { measureLines } from '../../stages/lines/measure.js';
+import type { LineSettings } from '../../stages/lines/settings.js';
 import type { SkySettings } from '../../stages/sky/settings.js';
+import { computeVelocities } from '../../stages/velocity/compute.js';
+import type { VelocitySettings } from '../../stages/velocity/settings.js';
 import { subtractSky } from '../../stages/sky/subtract.js';
 import type { CcdSettings } from '../../stages/ccd/settings.js';
 import type { TargetJob } from '../target-job.js';
 import { loadFrames } from './frames.js';
 import type { SetupCalibration } from './setup-stages.js';
-import { skySettingsFor } from './settings.js';
+import { geometryInputFor, lineSettingsFor, skySettingsFor, velocitySettingsFor } from './settings.js';
 import type { StageTimer } from './timer.js';
 
 /** Stage names of a target, in order (progress and cache keys). */
-export const TARGET_STAGES = ['load science', 'ccd science', 'flexure', 'sky'] as const;
+export const TARGET_STAGES = ['load science', 'ccd science', 'flexure', 'sky', 'lines', 'velocities', 'rotation curve'] as const;
 
 /** The settings each stage ran with, for provenance. */
 export interface TargetStageSettings {
   ccd: CcdSettings;
   flexure: FlexureSettings;
   sky: SkySettings;
+  lines: LineSettings;
+  velocity: VelocitySettings;
+  geometry: GeometryInput;
 }
 
 export interface TargetProducts {
@@ -38,16 +48,29 @@ export interface TargetProducts {
   /** Sky-subtracted frame and the sky model. */
   skySubtracted: CalibratedFrame;
   sky: SkyModel;
+  lines: LineTable;
+  velocities: VelocityTable;
+  curve: RotationCurve;
   settings: TargetStageSettings;
 }
 
 export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: StageTimer): TargetProducts {
-  const settings: TargetStageSettings = { ccd: cal.settings.ccd, flexure: { ...DEFAULT_FLEXURE_SETTINGS }, sky: skySettingsFor(job.target) };
+  const settings: TargetStageSettings = {
+    ccd: cal.settings.ccd,
+    flexure: { ...DEFAULT_FLEXURE_SETTINGS },
+    sky: skySettingsFor(job.target),
+    lines: lineSettingsFor(job.target),
+    velocity: velocitySettingsFor(job.setup, job.target),
+    geometry: geometryInputFor(job.setup, job.target),
+  };
   const frames = timer.step(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
   const calibrated = timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
   // The arc stage decided the direction of the wavelengths; the science follows it.
   const science = cal.solution.flipX ? flipFrameX(calibrated) : calibrated;
   const solution = timer.stage(TARGET_STAGES[2], () => measureFlexure(science, cal.solution, skyLines(), settings.flexure));
   const sky = timer.stage(TARGET_STAGES[3], () => subtractSky(science, solution, settings.sky));
-  return { science, solution, skySubtracted: sky.frame, sky: sky.sky, settings };
+  const lines = timer.stage(TARGET_STAGES[4], () => measureLines(sky.frame, solution, sky.sky, settings.lines));
+  const velocities = timer.stage(TARGET_STAGES[5], () => computeVelocities(lines, sky.frame, settings.velocity));
+  const curve = timer.stage(TARGET_STAGES[6], () => buildRotationCurve(velocities, lines, settings.geometry));
+  return { science, solution, skySubtracted: sky.frame, sky: sky.sky, lines, velocities, curve, settings };
 }

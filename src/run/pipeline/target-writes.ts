@@ -5,10 +5,16 @@
 import { join } from 'node:path';
 import type { Diagnostic } from '../../diagnostics.js';
 import { writeFits } from '../../fits/write.js';
+import { Header } from '../../fits/header.js';
+import { curveCsv, curveJson, curveTableHdu } from '../../products/writers/curve.js';
+import { lightCsv } from '../../products/writers/light.js';
+import { modellerText } from '../../products/writers/modeller.js';
+import { rowMapping, rowsCsv, rowsTableHdu } from '../../products/writers/rows.js';
 import { spectrumFits } from '../../products/writers/spectrum.js';
 import { renderTargetReport } from '../../report/target-report.js';
 import { VERSION } from '../../version.js';
 import { writeFileAtomic } from '../io/atomic.js';
+import type { CurveThumbnail } from '../io/state.js';
 import type { KeyNumbers } from '../summary.js';
 import type { TargetJob } from '../target-job.js';
 import { targetReportInput } from './report-input.js';
@@ -35,12 +41,44 @@ export function writeTargetProducts(job: TargetJob, cal: SetupCalibration, p: Ta
   const spectrum = spectrumFits(p.skySubtracted, p.solution, history);
   spectrum.primaryHeader.set('SKYSUB', true, 'sky model subtracted from SCI');
   put('spectrum.fits', writeFits(spectrum.hdus, { primaryHeader: spectrum.primaryHeader }));
-  put('report.html', renderTargetReport(targetReportInput(job, { frame: p.skySubtracted, solution: p.solution }, diagnostics, provenance)));
+  const rows = rowMapping(p.skySubtracted.orientation, p.skySubtracted.width);
+  put('rows.csv', rowsCsv(p.lines, p.velocities, p.curve, rows));
+  put('rows.fits', writeFits([rowsTableHdu(p.lines, p.velocities, p.curve, rows)], { primaryHeader: historyHeader(history) }));
+  put('curve.csv', curveCsv(p.curve));
+  put('curve.json', `${JSON.stringify(curveJson(p.curve, { target: job.target.name, whorl: VERSION }), null, 1)}\n`);
+  put('curve.fits', writeFits([curveTableHdu(p.curve)], { primaryHeader: historyHeader(history) }));
+  put('light.csv', lightCsv(p.curve));
+  put('modeller.txt', modellerText(p.curve, { target: job.target.name }));
+  const report = { frame: p.skySubtracted, solution: p.solution, lines: p.lines, velocities: p.velocities, curve: p.curve };
+  put('report.html', renderTargetReport(targetReportInput(job, report, diagnostics, provenance)));
   return files;
 }
 
+function historyHeader(history: readonly string[]): Header {
+  const h = new Header();
+  for (const line of history) h.history(line);
+  return h;
+}
+
+/** Non-finite numbers are left out (JSON has no NaN). */
 export function targetKeyNumbers(p: TargetProducts, cal: SetupCalibration): KeyNumbers {
-  const n: KeyNumbers = { arcRmsAngstrom: cal.solution.rmsAngstrom };
-  if (p.solution.flexure) n.flexureKms = p.solution.flexure.shiftKms;
-  return n;
+  const c = p.curve;
+  const all: KeyNumbers = {
+    vSysKms: c.vSys,
+    vSysErrKms: c.vSysErr,
+    vOuterKms: c.vOuter,
+    inclinationDeg: c.geometry.inclinationDeg,
+    curvePoints: c.points.length,
+    rMaxKpc: c.points.reduce((m, q) => Math.max(m, q.rKpc), 0),
+    curveShape: c.shape,
+    arcRmsAngstrom: cal.solution.rmsAngstrom,
+    lineMeasurements: p.lines.measurements.length,
+  };
+  if (p.solution.flexure) all.flexureKms = p.solution.flexure.shiftKms;
+  return Object.fromEntries(Object.entries(all).filter(([, v]) => typeof v === 'string' || Number.isFinite(v))) as KeyNumbers;
+}
+
+/** The folded curve in brief for the run index. */
+export function curveThumbnail(p: TargetProducts): CurveThumbnail {
+  return { rKpc: p.curve.points.map((q) => q.rKpc), vRot: p.curve.points.map((q) => q.vRot), err: p.curve.points.map((q) => q.errTotal) };
 }
