@@ -37,7 +37,7 @@ export function sampleReportInput(nBins = 12, object = 'Sample galaxy'): TargetR
   const curve: RotationCurve = {
     vSys: 2150.3, vSysErr: 1.1, centreRow: nBins, centreRowErr: 0.2, centreSource: 'fitted', vSysSource: 'fitted',
     geometry: { inclinationDeg: 58, inclinationErrDeg: 3, inclinationSource: 'given', majorAxisPaDeg: 35, slitPaDeg: 35, distanceMpc: 31, arcsecPerPixel: 0.4, kpcPerArcsec: 0.150 },
-    pv: bins.map((b, i) => ({ bin: i, offsetArcsec: (b.yCentre - nBins) * 0.4, vLos: 2150 + (i - nBins / 2) * 20, vLosErr: 3, radiusArcsec: Math.abs(b.yCentre - nBins) * 0.4, azimuthDeg: 0, vRot: 100, vRotErr: 4, side: i < nBins / 2 ? 'approaching' : 'receding', excluded: i === 0 })),
+    pv: bins.map((b, i) => ({ bin: i, yCentre: b.yCentre, projection: 0.85, flags: 0, offsetArcsec: (b.yCentre - nBins) * 0.4, vLos: 2150 + (i - nBins / 2) * 20, vLosErr: 3, radiusArcsec: Math.abs(b.yCentre - nBins) * 0.4, azimuthDeg: 0, vRot: 100, vRotErr: 4, side: i < nBins / 2 ? 'approaching' : 'receding', exclusion: i === 0 ? 'centre' : null })),
     points: radii.map((r) => ({ rArcsec: r / 0.15, rKpc: r, vRot: 150 * (1 - Math.exp(-r)), errStat: 3, errSys: 5, errTotal: 5.8, errAsymmetry: 4, errInclination: 3, vApproaching: 148 * (1 - Math.exp(-r)), vReceding: 152 * (1 - Math.exp(-r)), nApproaching: 2, nReceding: 2, oneSided: r === 5 })),
     light: radii.map((r) => ({ rArcsec: r / 0.15, rKpc: r, flux: 100 * Math.exp(-r), fluxApproaching: 98 * Math.exp(-r), fluxReceding: 102 * Math.exp(-r) })),
     dynamics: radii.map((r) => ({ rKpc: r, massMsun: 1e10 * r, massErrMsun: 1e9, logSlope: 0.1 })),

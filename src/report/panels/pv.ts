@@ -7,7 +7,7 @@ import { missing, section } from './section.js';
 export function pvPanel(input: TargetReportInput): string {
   const c = input.curve;
   if (!c) return missing('position-velocity', 'Position-velocity diagram', 'No velocities are available.');
-  const pick = (side: 'approaching' | 'receding', excluded: boolean) => c.pv.filter((p) => p.side === side && p.excluded === excluded);
+  const pick = (side: 'approaching' | 'receding', excluded: boolean) => c.pv.filter((p) => p.side === side && (p.exclusion !== null) === excluded);
   const series = (['approaching', 'receding'] as const).flatMap((side) => [
     { kind: 'points' as const, x: pick(side, false).map((p) => p.offsetArcsec), y: pick(side, false).map((p) => p.vLos), yErr: pick(side, false).map((p) => p.vLosErr), color: COLORS[side], label: side },
     { kind: 'points' as const, x: pick(side, true).map((p) => p.offsetArcsec), y: pick(side, true).map((p) => p.vLos), color: COLORS[side], hollow: true },
