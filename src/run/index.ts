@@ -1,2 +1,3 @@
 export * from './manifest/index.js';
 export * from './names.js';
+export * from './inventory/index.js';

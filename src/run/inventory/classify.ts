@@ -4,7 +4,7 @@
  */
 import type { Header } from '../../fits/header.js';
 import { normaliseValue, type InventoryRules } from './rules.js';
-import type { ClassifiedFrame, FrameHeader, FrameKind } from './types.js';
+import type { ClassifiedFrame, FrameHeader, InventoryFrameKind } from './types.js';
 
 /** A card value as text for grouping and messages (numbers as written by JS, strings trimmed). */
 function text(header: Header, key: string): string | undefined {
@@ -37,7 +37,7 @@ function lampsOf(header: Header, rules: InventoryRules): string[] {
   return out;
 }
 
-function kindFromType(header: Header, rules: InventoryRules): { kind?: FrameKind; reason: string } {
+function kindFromType(header: Header, rules: InventoryRules): { kind?: InventoryFrameKind; reason: string } {
   const seen: string[] = [];
   for (const key of rules.typeKeywords) {
     const v = text(header, key);
@@ -68,7 +68,7 @@ export function classifyFrame(frame: FrameHeader, rules: InventoryRules): Classi
   const lampText = `${rules.lampKeywords.find((k) => h.has(k)) ?? 'lamps'} = '${lamps.join(',')}'`;
   const exptimeS = h.getNumber('EXPTIME');
   const typed = kindFromType(h, rules);
-  let kind: FrameKind = typed.kind ?? 'unknown';
+  let kind: InventoryFrameKind = typed.kind ?? 'unknown';
   let reason = typed.reason;
   if ((kind === 'arc' && flatLamp && !arcLamp) || (kind === 'flat' && arcLamp && !flatLamp)) {
     // A lamp exposure whose lamps say which kind it is (`lamp` may mean either).

@@ -7,7 +7,7 @@ import { parseDocument } from 'yaml';
 import { z } from 'zod';
 import { InputError } from '../../errors.js';
 import { formatKeyPath } from '../manifest/parse.js';
-import type { FrameKind } from './types.js';
+import type { InventoryFrameKind } from './types.js';
 
 /** The rules file format, shown by `whorl inventory --help`. */
 export const RULES_FORMAT = `  type_keywords: [IMAGETYP, OBSTYPE]    # keywords naming the kind of exposure
@@ -28,7 +28,7 @@ export const RULES_FORMAT = `  type_keywords: [IMAGETYP, OBSTYPE]    # keywords 
 export interface InventoryRules {
   typeKeywords: string[];
   /** Normalised keyword values per kind. */
-  types: Record<Exclude<FrameKind, 'unknown'>, string[]>;
+  types: Record<Exclude<InventoryFrameKind, 'unknown'>, string[]>;
   lampKeywords: string[];
   arcLamps: string[];
   flatLamps: string[];

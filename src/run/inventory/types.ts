@@ -1,8 +1,7 @@
 /** What the inventory finds in a folder of raw frames, and the draft it makes of it. */
 import type { Header } from '../../fits/header.js';
 
-export type FrameKind = 'bias' | 'flat' | 'arc' | 'science' | 'unknown';
-export const FRAME_KINDS: readonly Exclude<FrameKind, 'unknown'>[] = ['bias', 'flat', 'arc', 'science'];
+export type InventoryFrameKind = 'bias' | 'flat' | 'arc' | 'science' | 'unknown';
 
 /** A frame's header as read from disk (the first HDU with a 2-D image, primary cards inherited). */
 export interface FrameHeader {
@@ -20,7 +19,7 @@ export interface UnreadableFile {
 }
 
 export interface ClassifiedFrame extends FrameHeader {
-  kind: FrameKind;
+  kind: InventoryFrameKind;
   /** Which rule decided the kind, in words (`IMAGETYP = 'object'`). */
   reason: string;
   /** OBJECT card, trimmed; undefined when absent or empty. */
