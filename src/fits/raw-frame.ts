@@ -34,8 +34,13 @@ export function inheritedHeader(file: FitsFile, hdu: Hdu): Header {
   return own;
 }
 
-export function loadRawFrame(path: string): RawFrame {
+/**
+ * The first 2-D image of a file as a RawFrame. Soft problems (a CHECKSUM mismatch, an unreadable
+ * card value) are appended to `warnings` when given, so the caller can turn them into diagnostics.
+ */
+export function loadRawFrame(path: string, warnings?: string[]): RawFrame {
   const file = readFitsFile(path);
+  warnings?.push(...file.warnings);
   const hdu = file.hdus.find(isFrame);
   if (!hdu) {
     throw new InputError('fits.no-frame', 'no HDU holds a 2-D image', { file: path }, { expected: 'an image HDU with NAXIS = 2', actual: file.hdus.map((h) => h.kind).join(', ') });

@@ -40,6 +40,16 @@ describe('loadRawFrame', () => {
     expect(f.header.getNumber('NAXIS1')).toBe(4);
   });
 
+  it('hands soft problems such as a DATASUM mismatch to the caller', () => {
+    const bytes = writeFits([{ kind: 'image', bitpix: 16, bzero: 32768, width: 4, height: 3, data: new Array(12).fill(5) }], { imageInPrimary: true });
+    bytes[2880] ^= 1;
+    const path = join(tmp, 'sum.fits');
+    writeFileSync(path, bytes);
+    const warnings: string[] = [];
+    loadRawFrame(path, warnings);
+    expect(warnings.join()).toMatch(/sum\.fits, HDU 0: DATASUM does not match the data/);
+  });
+
   it('a file with no 2-D image is an InputError naming the file', () => {
     const path = join(tmp, 'table.fits');
     writeFileSync(path, writeFits([{ kind: 'bintable', name: 'T', columns: [{ name: 'A', format: 'J', values: [1] }] }]));
