@@ -1,7 +1,7 @@
 /** What a caller may ask of the simulator, and the checked, defaulted form the simulator uses. */
 import { InputError } from '../errors.js';
 
-/** Scenario variants (see README of the simulator in index.ts). */
+/** Scenario variants, described in index.ts. */
 export type SimVariant = 'standard' | 'rotated' | 'offset' | 'falling' | 'faint';
 export const SIM_VARIANTS: readonly SimVariant[] = ['standard', 'rotated', 'offset', 'falling', 'faint'];
 

@@ -129,6 +129,29 @@ describe('detector', () => {
     }
   });
 
+  it('has honest noise: pulls (raw - expected) / sqrt(expected + RN^2) of unit width in every kind of frame', () => {
+    for (const name of ['raw/bias_001.fits', 'raw/flat_002.fits', 'raw/arc_001.fits', 'raw/sci_003.fits']) {
+      const f = frameOf(run, name);
+      const e = run.expected!.get(name)!;
+      const means = overscanRowMeans(run, f);
+      const tw = trimmedWidth(run, f);
+      const hit = new Set(run.truth.frames[name]!.cosmicRays.x.map((x, k) => run.truth.frames[name]!.cosmicRays.y[k]! * tw + x));
+      // Read noise, the rounding to ADU (g^2 / 12) and the noise of the 32-pixel overscan mean.
+      const fixed = det.readNoiseE ** 2 + det.gainEPerAdu ** 2 / 12 + (det.readNoiseE ** 2 + det.gainEPerAdu ** 2 / 12) / 32;
+      const pulls: number[] = [];
+      for (let y = 0; y < f.height; y++) {
+        for (let x = 0; x < tw; x++) {
+          const i = y * tw + x;
+          if (hit.has(i) || f.adu[y * f.width + x] === det.saturationAdu) continue;
+          pulls.push((electronsAboveBias(run, f, x, y, means) - e[i]!) / Math.sqrt(e[i]! + fixed));
+        }
+      }
+      const p = stats(pulls);
+      expect(Math.abs(p.mean), name).toBeLessThan(0.02);
+      expect(Math.abs(Math.sqrt(p.variance) - 1), name).toBeLessThan(0.02);
+    }
+  });
+
   it('lets the brightest arc lines come close to saturation without exceeding the converter range', () => {
     const f = frameOf(run, 'raw/arc_001.fits');
     let max = 0;
