@@ -4,8 +4,6 @@
  * centre +- nSigma * scale, inclusive; a rejected value never returns; stop when nothing changes
  * or after maxIterations rounds), then the mean of the kept values.
  */
-import { medianOfBuffer } from './robust.js';
-
 export interface StackClipOptions {
   /** Half-width of the kept band in units of the scale. */
   nSigma: number;
@@ -19,59 +17,61 @@ export interface StackClipOptions {
   noise?: { constant: number; perSignal: number };
 }
 
-/** Fill `out` with the clipped mean; `kept` (optional) receives the number of values kept per pixel. */
+/**
+ * Fill `out` with the clipped mean; `kept` (optional) receives the number of values kept per pixel.
+ * Each pixel's values are sorted once (insertion sort: stacks are small): both bounds are applied
+ * to a sorted list, so the kept values are always a contiguous run of it and each round only
+ * moves its two ends.
+ */
 export function clippedMeanStack(stack: readonly Float32Array[], out: Float32Array, options: StackClipOptions, kept?: Uint8Array): void {
   const n = stack.length;
   if (n === 0) throw new RangeError('clippedMeanStack: empty stack');
   const size = out.length;
   for (const image of stack) if (image.length !== size) throw new RangeError(`clippedMeanStack: image of ${image.length} pixels in a stack of ${size}`);
   if (n > 255) throw new RangeError('clippedMeanStack: at most 255 images');
-  const values = new Float64Array(n);
-  const work = new Float64Array(n);
-  const alive = new Uint8Array(n);
+  const v = new Float64Array(n);
   const { nSigma, maxIterations, noise } = options;
   for (let p = 0; p < size; p++) {
+    let m = 0;
     for (let i = 0; i < n; i++) {
-      const v = stack[i]![p]!;
-      values[i] = v;
-      alive[i] = v === v ? 1 : 0;
+      const x = stack[i]![p]!;
+      if (x !== x) continue;
+      let j = m - 1;
+      while (j >= 0 && v[j]! > x) {
+        v[j + 1] = v[j]!;
+        j--;
+      }
+      v[j + 1] = x;
+      m++;
     }
-    for (let iter = 0; iter < maxIterations; iter++) {
-      let m = 0;
-      for (let i = 0; i < n; i++) if (alive[i]) work[m++] = values[i]!;
-      if (m === 0) break;
-      const centre = medianOfBuffer(work, m);
+    let lo = 0;
+    let hi = m;
+    for (let iter = 0; iter < maxIterations && hi > lo; iter++) {
+      const count = hi - lo;
+      const half = lo + (count >> 1);
+      const centre = count % 2 === 1 ? v[half]! : 0.5 * (v[half - 1]! + v[half]!);
       let scale: number;
       if (noise) {
         scale = Math.sqrt(noise.constant + noise.perSignal * (centre > 0 ? centre : 0));
       } else {
         let mean = 0;
-        for (let i = 0; i < n; i++) if (alive[i]) mean += values[i]!;
-        mean /= m;
+        for (let i = lo; i < hi; i++) mean += v[i]!;
+        mean /= count;
         let ss = 0;
-        for (let i = 0; i < n; i++) if (alive[i]) ss += (values[i]! - mean) ** 2;
-        scale = Math.sqrt(ss / m);
+        for (let i = lo; i < hi; i++) ss += (v[i]! - mean) * (v[i]! - mean);
+        scale = Math.sqrt(ss / count);
       }
-      const lo = centre - nSigma * scale;
-      const hi = centre + nSigma * scale;
-      let changed = 0;
-      for (let i = 0; i < n; i++) {
-        if (alive[i] && (values[i]! < lo || values[i]! > hi)) {
-          alive[i] = 0;
-          changed++;
-        }
-      }
-      if (changed === 0) break;
+      const low = centre - nSigma * scale;
+      const high = centre + nSigma * scale;
+      const lo0 = lo;
+      const hi0 = hi;
+      while (lo < hi && v[lo]! < low) lo++;
+      while (hi > lo && v[hi - 1]! > high) hi--;
+      if (lo === lo0 && hi === hi0) break;
     }
     let sum = 0;
-    let m = 0;
-    for (let i = 0; i < n; i++) {
-      if (alive[i]) {
-        sum += values[i]!;
-        m++;
-      }
-    }
-    out[p] = m > 0 ? sum / m : NaN;
-    if (kept) kept[p] = m;
+    for (let i = lo; i < hi; i++) sum += v[i]!;
+    out[p] = hi > lo ? sum / (hi - lo) : NaN;
+    if (kept) kept[p] = hi - lo;
   }
 }

@@ -1,9 +1,12 @@
 /**
  * Square median filters of float images with mirrored edges (the 'reflect' mode of
- * scipy.ndimage: d c b a | a b c d | d c b a). Window (2r + 1)^2 is odd, so the median is a pixel value.
- * 3x3 uses sorted columns shared along the row (exact: the median of nine is the median of the
- * largest column minimum, the median of the column medians and the smallest column maximum);
- * larger windows select with quickselect in one scratch buffer (no allocation per pixel).
+ * scipy.ndimage: d c b a | a b c d | d c b a). Window (2r + 1)^2 is odd, so the median is a pixel
+ * value, and every method here returns it exactly.
+ * 3x3 uses sorted columns shared along the row (the median of nine is the median of the largest
+ * column minimum, the median of the column medians and the smallest column maximum). Larger
+ * windows slide a histogram over rank bins (Huang's running-histogram median): each pixel's bin
+ * is its rank class among a sample of the image, the histogram says which bin holds the median,
+ * and the few window values in that bin are ordered exactly.
  */
 import { selectInPlace } from './robust.js';
 
@@ -33,19 +36,81 @@ export function medianFilter(src: Float32Array, width: number, height: number, r
     return dst;
   }
   if (radius === 1) return median3x3(src, width, height, dst);
+  return histogramMedian(src, width, height, radius, dst);
+}
+
+/** Rank classes for the running histogram. */
+const BINS = 64;
+const SAMPLES = 8192;
+
+/** Bin of every pixel: the number of sampled quantile edges at or below its value (NaN goes last). */
+function rankBins(src: Float32Array): Uint16Array {
+  const stride = Math.max(1, Math.floor(src.length / SAMPLES));
+  const sample = new Float64Array(Math.ceil(src.length / stride));
+  let m = 0;
+  for (let i = 0; i < src.length; i += stride) if (src[i] === src[i]) sample[m++] = src[i]!;
+  const sorted = sample.subarray(0, m).sort();
+  const edges = new Float64Array(BINS - 1);
+  for (let k = 1; k < BINS; k++) edges[k - 1] = m > 0 ? sorted[Math.min(m - 1, Math.floor((k * m) / BINS))]! : 0;
+  const bins = new Uint16Array(src.length);
+  for (let i = 0; i < src.length; i++) {
+    const v = src[i]!;
+    if (v !== v) {
+      bins[i] = BINS - 1;
+      continue;
+    }
+    let lo = 0;
+    let hi = BINS - 1;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (edges[mid]! <= v) lo = mid + 1;
+      else hi = mid;
+    }
+    bins[i] = lo;
+  }
+  return bins;
+}
+
+function histogramMedian(src: Float32Array, width: number, height: number, radius: number, dst: Float32Array): Float32Array {
   const xs = reflectMap(width, radius);
   const ys = reflectMap(height, radius);
   const size = 2 * radius + 1;
+  const k = (size * size) >> 1;
+  const bins = rankBins(src);
+  const hist = new Int32Array(BINS);
+  const rows = new Int32Array(size);
   const scratch = new Float32Array(size * size);
-  const half = (size * size) >> 1;
   for (let y = 0; y < height; y++) {
-    for (let x = 0; x < width; x++) {
-      let k = 0;
+    hist.fill(0);
+    for (let dy = 0; dy < size; dy++) rows[dy] = ys[y + dy]! * width;
+    for (let dy = 0; dy < size; dy++) for (let dx = 0; dx < size; dx++) hist[bins[rows[dy]! + xs[dx]!]!]++;
+    let b = 0;
+    let below = 0; // window values in bins < b
+    while (below + hist[b]! <= k) below += hist[b++]!;
+    for (let x = 0; ; ) {
+      // Order the window values of bin b exactly.
+      let c = 0;
       for (let dy = 0; dy < size; dy++) {
-        const row = ys[y + dy]! * width;
-        for (let dx = 0; dx < size; dx++) scratch[k++] = src[row + xs[x + dx]!]!;
+        const row = rows[dy]!;
+        for (let dx = 0; dx < size; dx++) {
+          const i = row + xs[x + dx]!;
+          if (bins[i] === b) scratch[c++] = src[i]!;
+        }
       }
-      dst[y * width + x] = selectInPlace(scratch, k, half);
+      dst[y * width + x] = selectInPlace(scratch, c, k - below);
+      if (++x === width) break;
+      const out = xs[x - 1]!;
+      const into = xs[x + size - 1]!;
+      for (let dy = 0; dy < size; dy++) {
+        const bo = bins[rows[dy]! + out]!;
+        hist[bo]--;
+        if (bo < b) below--;
+        const bi = bins[rows[dy]! + into]!;
+        hist[bi]++;
+        if (bi < b) below++;
+      }
+      while (below > k) below -= hist[--b]!;
+      while (below + hist[b]! <= k) below += hist[b++]!;
     }
   }
   return dst;
