@@ -64,11 +64,10 @@ export function calibrateSetupCached(setup: ResolvedSetup, run: ResolvedRun, key
 export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: StageTimer): SetupCalibration {
   const ccdSettings = ccdSettingsFor(setup);
   const arcSettings = arcSettingsFor(setup);
-  const frames = timer.step(SETUP_STAGES[0], () => ({
-    bias: loadFrames(setup.bias, run.baseDir),
-    flat: loadFrames(setup.flat, run.baseDir),
-    arc: loadFrames(setup.arc, run.baseDir),
-  }));
+  const frames = timer.stage(SETUP_STAGES[0], () => {
+    const [bias, flat, arc] = [setup.bias, setup.flat, setup.arc].map((paths) => loadFrames(paths, run.baseDir));
+    return { product: { bias: bias!.product, flat: flat!.product, arc: arc!.product }, diagnostics: [bias!, flat!, arc!].flatMap((r) => r.diagnostics) };
+  });
   const ccd = timer.stage(SETUP_STAGES[1], () => buildCalibration(frames, ccdSettings));
   const lampLines: LampLine[] = [...loadLampLines(setup.lamps), ...setup.line_lists.flatMap((f) => readLineListFile(f))].sort((a, b) => a.wavelength - b.wavelength);
   const solution = timer.stage(SETUP_STAGES[2], () => solveWavelengths(ccd.arc, lampLines, arcSettings));

@@ -63,7 +63,7 @@ export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: St
     velocity: velocitySettingsFor(job.setup, job.target),
     geometry: geometryInputFor(job.setup, job.target),
   };
-  const frames = timer.step(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
+  const frames = timer.stage(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
   const calibrated = timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
   // The arc stage decided the direction of the wavelengths; the science follows it.
   const science = cal.solution.flipX ? flipFrameX(calibrated) : calibrated;
