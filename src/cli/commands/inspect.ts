@@ -29,8 +29,9 @@ export function inspectFile(path: string): FileReport {
 function num(v: number): string {
   if (Number.isNaN(v)) return '-';
   if (Number.isInteger(v) && Math.abs(v) < 1e9) return String(v);
-  const s = v.toPrecision(6);
-  return s.includes('e') ? s.replace(/\.?0+e/, 'e') : s.replace(/\.?0+$/, '');
+  const a = Math.abs(v);
+  if (a !== 0 && (a < 1e-3 || a >= 1e9)) return v.toExponential(5).replace(/\.?0+e/, 'e');
+  return v.toPrecision(6).replace(/(\.\d*?)0+$/, '$1').replace(/\.$/, '');
 }
 
 function table(rows: string[][]): string {
