@@ -6,6 +6,7 @@
  * barycentric unless a field says otherwise.
  */
 import { evalLegendre1D, type Legendre1D } from '../kernels/legendre.js';
+import { SPEED_OF_LIGHT_KMS } from '../physics/constants.js';
 import { diskCoordinates } from '../physics/disk.js';
 import type { Orientation } from '../products/frame.js';
 
@@ -190,8 +191,14 @@ export function slitOffsetArcsec(truth: TargetTruth, s: number): number {
   return (s - truth.centreRow) * truth.arcsecPerPixel;
 }
 
-/** True v_los (km/s barycentric optical) at internal slit row s: v_sys + V(R) sin i cos(theta). */
+/**
+ * True v_los (km/s barycentric optical) at internal slit row s: the thin-disk projection
+ * V(R) sin i cos(theta), measured in the galaxy's rest frame, compounded with the systemic
+ * redshift: (1 + z) = (1 + z_sys)(1 + V sin i cos(theta) / c), i.e.
+ * v_los = v_sys + V sin i cos(theta) (1 + v_sys / c). So c (z - z_sys) / (1 + z_sys)
+ * (REFERENCE.md, "Velocities") gives back V sin i cos(theta) exactly.
+ */
 export function trueVlos(truth: TargetTruth, s: number): number {
   const p = diskCoordinates(slitOffsetArcsec(truth, s), truth.slitPaDeg - truth.majorAxisPaDeg, truth.inclinationDeg);
-  return truth.vSysKms + trueRotation(truth, p.radiusArcsec) * p.projection;
+  return truth.vSysKms + trueRotation(truth, p.radiusArcsec) * p.projection * (1 + truth.vSysKms / SPEED_OF_LIGHT_KMS);
 }

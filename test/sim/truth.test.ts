@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { simulateRun, slitOffsetArcsec, trueRotation, trueVlos, trueWavelength, type TargetTruth } from '../../src/sim/index.js';
+import { relativeVelocity } from '../../src/physics/doppler.js';
 import { diskRadius } from '../../src/sim/targets.js';
 
 const run = simulateRun({ variant: 'offset' });
@@ -9,12 +10,14 @@ function withGeometry(t: TargetTruth, slitToMajorDeg: number, inclinationDeg: nu
 }
 
 describe('trueVlos', () => {
-  it('follows v_sys + V(R) sin i cos(theta) with the worked example of REFERENCE.md (dphi 20, i 60: R/r 1.16230, sin i cos theta 0.70016)', () => {
+  it('follows V(R) sin i cos(theta) relative to the galaxy with the worked example of REFERENCE.md (dphi 20, i 60: R/r 1.16230, sin i cos theta 0.70016)', () => {
     const t = withGeometry(run.truth.targets[0]!, 20, 60);
     const s = t.centreRow + 30.25;
     const r = slitOffsetArcsec(t, s);
     expect(diskRadius(t, s) / r).toBeCloseTo(1.1623, 4);
-    expect((trueVlos(t, s) - t.vSysKms) / trueRotation(t, 1.1623 * r)).toBeCloseTo(0.70016, 4);
+    // Velocity relative to the galaxy: c (z - z_sys) / (1 + z_sys) (REFERENCE.md, src/physics).
+    expect(relativeVelocity(trueVlos(t, s), t.vSysKms) / trueRotation(t, 1.1623 * r)).toBeCloseTo(0.70016, 4);
+    expect(relativeVelocity(trueVlos(t, s), t.vSysKms)).toBeCloseTo(trueRotation(t, diskRadius(t, s)) * 0.700164, 3);
   });
 
   it('is v_sys at the kinematic centre and antisymmetric about it', () => {
