@@ -1,21 +1,29 @@
 /**
  * Products are written completely or not at all: each goes to a temporary file in the same
  * folder (same file system, so rename is atomic on POSIX) and is renamed into place once it is
- * whole. A run killed at any moment leaves at most `.*.partial` files, which the next run removes.
- * No fsync: a killed process loses nothing the kernel already holds, and fsync per product cost
- * seconds per run here; only a power cut could leave a renamed file short.
+ * whole. A run killed at any moment leaves at most `.*.partial-*` files, which the next run
+ * removes. No fsync: a killed process loses nothing the kernel already holds, and fsync per
+ * product cost seconds per run here; only a power cut could leave a renamed file short.
+ *
+ * Several whorl processes may share one output folder (a batch-scheduler array with `--only`),
+ * so a temporary name carries the host and process id, and only the leftovers of processes that
+ * are gone are removed: dead ones on this host, and those of other hosts after a day.
  */
-import { closeSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, writeSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, statSync, writeSync } from 'node:fs';
+import { hostname } from 'node:os';
 import { basename, dirname, join } from 'node:path';
 
-const PARTIAL = /^\..+\.partial-\d+-\d+$/;
+const HOST = hostname().replace(/[^A-Za-z0-9_-]/g, '_');
+const PARTIAL = /^\..+\.partial-([A-Za-z0-9_-]+)-(\d+)-\d+$/;
+/** Leftovers of another host are removed once this old (ms): no product takes a day to write. */
+const FOREIGN_AGE_MS = 24 * 3600 * 1000;
 let counter = 0;
 
 /** Write `data` to `path` atomically (creating the folder). */
 export function writeFileAtomic(path: string, data: string | Uint8Array): void {
   const dir = dirname(path);
   mkdirSync(dir, { recursive: true });
-  const tmp = join(dir, `.${basename(path)}.partial-${process.pid}-${counter++}`);
+  const tmp = join(dir, `.${basename(path)}.partial-${HOST}-${process.pid}-${counter++}`);
   const fd = openSync(tmp, 'w');
   try {
     const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
@@ -30,7 +38,24 @@ export function writeFileAtomic(path: string, data: string | Uint8Array): void {
   renameSync(tmp, path);
 }
 
-/** Remove temporary files left by a killed run in `dir` (not recursive). Returns how many. */
+function alive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+function ageMs(path: string): number {
+  try {
+    return Date.now() - statSync(path).mtimeMs;
+  } catch {
+    return 0;
+  }
+}
+
+/** Remove temporary files that killed runs left in `dir` (not recursive). Returns how many. */
 export function removePartialFiles(dir: string): number {
   let names: string[];
   try {
@@ -40,8 +65,12 @@ export function removePartialFiles(dir: string): number {
   }
   let n = 0;
   for (const name of names) {
-    if (PARTIAL.test(name)) {
-      rmSync(join(dir, name), { force: true });
+    const m = PARTIAL.exec(name);
+    if (!m) continue;
+    const path = join(dir, name);
+    const stale = m[1] === HOST ? Number(m[2]) !== process.pid && !alive(Number(m[2])) : ageMs(path) > FOREIGN_AGE_MS;
+    if (stale) {
+      rmSync(path, { force: true });
       n++;
     }
   }
