@@ -35,9 +35,11 @@ export function liveProgress(stream: NodeJS.WritableStream, color: boolean): Eve
       case 'setup-start':
         perTarget.set(`setup:${e.setup}`, bars.create(1, 0, { label: `setup ${e.setup}`, stage: 'calibrating' }));
         break;
-      case 'setup-done':
-        perTarget.get(`setup:${e.setup}`)?.update(1, { stage: e.status === 'failed' ? `FAILED: ${e.reason ?? ''}` : e.status });
+      case 'setup-done': {
+        const bar = perTarget.get(`setup:${e.setup}`);
+        bar?.update(bar.getTotal(), { stage: e.status === 'failed' ? `FAILED: ${e.reason ?? ''}` : e.status === 'cached' ? 'unchanged' : 'calibrated' });
         break;
+      }
       case 'target-start':
         perTarget.set(e.target, bars.create(1, 0, { label: e.target, stage: 'starting' }));
         break;
