@@ -13,6 +13,8 @@ export type RunEvent =
   /** A stage begins; `index` counts from 0 among `total` stages of the target. */
   | { type: 'stage'; t: number; target?: string; setup?: string; stage: string; index: number; total: number }
   | { type: 'target-done'; t: number; target: string; status: TargetStatus; reason?: string; seconds: number }
+  /** Something the user should know that is neither progress nor a failure. */
+  | { type: 'notice'; t: number; message: string }
   | { type: 'run-done'; t: number; ok: number; failed: number; cached: number; seconds: number; summary: string };
 
 export type EventSink = (e: RunEvent) => void;

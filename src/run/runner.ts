@@ -110,6 +110,7 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
 
   const runnable = jobs.filter((j) => calibrations.has(j.setup.name));
   const parallel = Math.min(opts.jobs, runnable.length);
+  if (parallel > 1 && !workerScriptAvailable()) emit({ type: 'notice', t: now(), message: 'worker script missing (run `npm run build`): targets run one at a time' });
   if (parallel > 1 && workerScriptAvailable()) {
     const pool = new TargetPool(parallel, emit);
     const packed = new Map([...calibrations].map(([name, c]) => [name, pack(c)]));

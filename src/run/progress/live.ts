@@ -55,6 +55,9 @@ export function liveProgress(stream: NodeJS.WritableStream, color: boolean): Eve
         overall?.increment(1, { stage: '' });
         break;
       }
+      case 'notice':
+        bars.log(`${e.message}\n`);
+        break;
       case 'run-done':
         overall?.update({ stage: '' });
         bars.stop();

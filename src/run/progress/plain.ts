@@ -28,6 +28,9 @@ export function plainProgress(write: (text: string) => void, opts: { quiet?: boo
       case 'run-done':
         if (!opts.quiet) write(`${e.summary}\n`);
         break;
+      case 'notice':
+        write(`whorl: ${e.message}\n`);
+        break;
       case 'target-start':
         break;
     }
