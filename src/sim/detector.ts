@@ -1,6 +1,7 @@
 /**
- * The detector: slit illumination and pixel sensitivity (multiplying the light), hot columns, shot and read noise, cosmic rays, bias
- * with its row pattern, the overscan strip, digitisation and saturation.
+ * The detector: slit illumination and pixel sensitivity (multiplying the light), hot columns,
+ * shot and read noise, cosmic rays, bias with its row pattern, the overscan strip,
+ * digitisation and saturation.
  */
 import type { Orientation } from '../products/frame.js';
 import { POISSON_NORMAL_THRESHOLD, type Rng } from './random.js';

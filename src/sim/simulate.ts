@@ -10,10 +10,10 @@ import { frameHeader } from './headers.js';
 import { runManifestYaml } from './manifest.js';
 import { resolveSimOptions, type SimOptions } from './options.js';
 import { Rng, streamSeed } from './random.js';
-import type { UniformLine } from './light.js';
-import { arcLines, lampLineFactors, renderArc, renderFlat, renderGas, renderSky, renderStars } from './render.js';
+import { LightCache } from './light-cache.js';
+import { arcLines, lampLineFactors } from './render.js';
 import { GALAXIES, INSTRUMENT, SITE, TELESCOPE } from './scenario.js';
-import { dateObsText, planNight, type FrameKind, type FramePlan, type TargetPlan } from './schedule.js';
+import { dateObsText, planNight, type FrameKind, type TargetPlan } from './schedule.js';
 import { SETUP_NAMES, makeDetector, makeSetup } from './setups.js';
 import { addCoreHits, addHit, sharedHitPixels } from './special-hits.js';
 import { makeTarget, targetName } from './targets.js';
@@ -37,7 +37,11 @@ export interface SimulatedRun {
   frames: SimFrame[];
   manifestYaml: string;
   truth: RunTruth;
-  /** Frame name -> noiseless electrons in the trimmed data section (raw orientation), no cosmic rays; with `expected`. */
+  /**
+   * With `expected`: frame name -> noiseless electrons per pixel of the trimmed data section (raw
+   * orientation): light x slit illumination x pixel sensitivity, plus the hot-column excess; no
+   * bias, noise or cosmic rays.
+   */
   expected?: Map<string, Float32Array>;
 }
 
@@ -97,7 +101,7 @@ export function simulateRun(options?: SimOptions): SimulatedRun {
     const target = plan.target === undefined ? undefined : targets[plan.target];
     if (target) pointing = { ra: target.ra, dec: target.dec };
     const rng = new Rng(streamSeed(opts.seed, `frame:${plan.name}`));
-    // Lamps and sky vary a little from exposure to exposure (common practice: about a percent).
+    // Lamp brightness varies a little from exposure to exposure (about a percent, from memory).
     const lampScale = plan.kind === 'flat' || plan.kind === 'arc' ? 1 + 0.01 * rng.normal() : 1;
     const raw = toRaw(lights.frame(plan, setup, target, lampScale), W, H, setup.orientation).data;
     addHotColumns(detector, plan.exptimeS, trimmed.width, trimmed.height, raw);
@@ -123,42 +127,4 @@ export function simulateRun(options?: SimOptions): SimulatedRun {
   const run: SimulatedRun = { frames: simFrames, manifestYaml: runManifestYaml(truth, simFrames), truth };
   if (expected) run.expected = expected;
   return run;
-}
-
-/**
- * The expected electrons of each frame in internal orientation, response applied. What is the
- * same for several frames (a lamp, the sky and stellar continuum of a target) is rendered once.
- */
-class LightCache {
-  private readonly cache = new Map<string, Float32Array>();
-  constructor(
-    private readonly size: RunTruth['size'],
-    private readonly response: Float32Array,
-    private readonly arcLines: Map<string, UniformLine[]>,
-  ) {}
-
-  frame(plan: FramePlan, setup: SetupTruth, target: TargetTruth | undefined, scale: number): Float32Array {
-    const n = this.response.length;
-    const out = new Float32Array(n);
-    if (plan.kind === 'bias') return out;
-    const key = `${plan.kind}:${setup.name}:${target?.name ?? ''}:${plan.exptimeS}`;
-    let base = this.cache.get(key);
-    if (!base) {
-      base = new Float32Array(n);
-      if (plan.kind === 'flat') renderFlat(setup, base);
-      else if (plan.kind === 'arc') renderArc(setup, this.arcLines.get(setup.name)!, base);
-      else if (target) {
-        renderSky(setup, this.size, plan.exptimeS, base);
-        renderStars(setup, this.size, target, plan.exptimeS, base);
-      }
-      this.cache.set(key, base);
-    }
-    if (plan.kind === 'science' && target) {
-      renderGas(setup, target, target.exposures.find((e) => e.frame === plan.name)!, out);
-      for (let i = 0; i < n; i++) out[i] = (out[i]! + base[i]!) * this.response[i]!;
-    } else {
-      for (let i = 0; i < n; i++) out[i] = scale * base[i]! * this.response[i]!;
-    }
-    return out;
-  }
 }
