@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { parseDeclination, parseRightAscension, midExposure } from '../../src/physics/coordinates.js';
+import { midExposure, parseDeclination, parseRightAscension, siteFromHeader } from '../../src/physics/coordinates.js';
 import { simulateRun } from '../../src/sim/index.js';
 import { electronsAboveBias, frameOf, overscanRowMeans, standardRun, trimmedWidth } from './shared-run.js';
 
@@ -32,6 +32,7 @@ describe('raw frames', () => {
       expect(midExposure(h.getString('DATE-OBS')!, h.getNumber('EXPTIME')!).getUTCFullYear()).toBe(2019);
       expect(parseRightAscension(h.getString('RA')!)).toBeCloseTo((10 + 8 / 60 + 41.2 / 3600) * 15, 6);
       expect(parseDeclination(h.getString('DEC')!)).toBeCloseTo(-(18 + 44 / 60 + 7 / 3600), 6);
+      expect(siteFromHeader(h)).toEqual({ latitudeDeg: run.truth.site.latitudeDeg, longitudeDeg: run.truth.site.longitudeDeg, heightM: run.truth.site.heightM });
     }
     expect(frameOf(run, 'raw/arc_001.fits').header.getString('LAMPS')).toBe('Ne,Ar');
     expect(run.frames.map((f) => f.header.getString('IMAGETYP'))).toEqual(['bias', 'bias', 'bias', 'bias', 'bias', 'flat', 'flat', 'flat', 'arc', 'object', 'object', 'object', 'arc']);
