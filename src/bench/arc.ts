@@ -28,12 +28,17 @@ export async function benchArc(ctx: BenchContext): Promise<BenchRow[]> {
   const settings = { ...DEFAULT_ARC_SETTINGS, approxWavelength: setup.approxWavelength, approxDispersion: setup.approxDispersion };
 
   let best = Infinity;
+  let bestCpu = Infinity;
   let peak = 0;
   let result = solveWavelengths(arc, lamps, settings).product;
   for (let i = 0; i < REPEATS; i++) {
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     result = solveWavelengths(arc, lamps, settings).product;
     best = Math.min(best, performance.now() - t0);
+    const c = process.cpuUsage(c0);
+    // CPU time too: on a shared machine the wall time measures the neighbours as well
+    bestCpu = Math.min(bestCpu, (c.user + c.system) / 1000);
     peak = Math.max(peak, process.memoryUsage().rss / 2 ** 20);
   }
   let sum = 0;
@@ -61,7 +66,7 @@ export async function benchArc(ctx: BenchContext): Promise<BenchRow[]> {
       name: `arc: identify and solve ${arc.width}x${arc.height} (${arcs.length} arcs combined)`,
       wallMs: best,
       peakRssMb: peak,
-      figure: `${lines} lines, ${used.length} positions, rms ${result.rmsPx.toFixed(4)} px, error vs truth ${Math.sqrt(sum / n).toFixed(4)} px RMS`,
+      figure: `cpu ${bestCpu.toFixed(0)} ms; ${lines} lines, ${used.length} positions, rms ${result.rmsPx.toFixed(4)} px, error vs truth ${Math.sqrt(sum / n).toFixed(4)} px RMS`,
       target: '< 2000 ms',
     },
     { name: `arc: wave at every pixel centre (${result.model.xOrder}x${result.model.yOrder} Legendre)`, wallMs: gridMs, figure: `${((result.width * result.height) / (gridMs / 1000) / 1e6).toFixed(0)} Mpx/s` },

@@ -1,19 +1,29 @@
 /**
  * Least-squares Legendre fits (1-D and tensor-product 2-D) with iterative sigma clipping.
  * Clipping: after each fit, every point whose normalised residual |r_i| sqrt(w_i) exceeds
- * clipSigma times the RMS normalised residual of the kept points is left out of the next fit;
- * points may come back; it stops when the kept set no longer changes (common practice).
+ * clipSigma times the scale of the normalised residuals of the kept points (their RMS, or with
+ * `robust` their MAD x 1.4826, and then only the worst few per round) is left out of the next
+ * fit; points may come back; it stops when
+ * the kept set no longer changes (common practice).
  */
 import { legendreBasis, normalise, type Legendre1D, type Legendre2D } from './legendre.js';
 import { weightedLeastSquares } from './least-squares.js';
+import { madSigma } from './robust.js';
 
 export interface LegendreFitOptions {
   /** Clipping threshold in units of the RMS normalised residual; Infinity disables. Default 3. */
   clipSigma?: number;
-  /** Most clipping rounds. Default 5. */
+  /** Most clipping rounds. Default 5 (20 with `robust`, which leaves out fewer points per round). */
   maxIterations?: number;
   /** Never clip below this many kept points (the fit keeps the best ones). Default nCoeffs + 1. */
   minKept?: number;
+  /**
+   * Scale the threshold by the MAD of the normalised residuals instead of their RMS, and leave out
+   * at most 5% of the kept points per round, the worst first (default false): with few points one
+   * gross outlier inflates the RMS enough to hide itself, or bends the fit enough to push good
+   * points out with it.
+   */
+  robust?: boolean;
 }
 
 export interface LegendreFitResult<M> {
@@ -93,7 +103,7 @@ function clippedFit(
   options: LegendreFitOptions,
 ): ClippedFit {
   const clipSigma = options.clipSigma ?? 3;
-  const maxIterations = options.maxIterations ?? 5;
+  const maxIterations = options.maxIterations ?? (options.robust ? 20 : 5);
   const minKept = Math.max(options.minKept ?? nc + 1, nc);
   const base = new Float64Array(n);
   for (let i = 0; i < n; i++) base[i] = weights ? weights[i]! : 1;
@@ -118,17 +128,85 @@ function clippedFit(
     const reducedChi2 = fit.dof > 0 ? fit.chi2 / fit.dof : NaN;
     const done = { coeffs: fit.coeffs, covariance: fit.covariance, used, residuals, rms, chi2: fit.chi2, dof: fit.dof, reducedChi2, nUsed };
     if (!(clipSigma < Infinity) || iter >= maxIterations || !(fit.chi2 > 0)) return done;
-    const limit = clipSigma * Math.sqrt(fit.chi2 / nUsed);
-    let changed = false;
+    const scores = options.robust ? studentised(design, n, nc, residuals, base, w, fit.covariance) : normalisedResiduals(residuals, base);
+    const limit = clipSigma * (options.robust ? robustScale(scores, w) : Math.sqrt(fit.chi2 / nUsed));
+    const next = nextWeights(scores, base, w, limit, options.robust === true);
     let kept = 0;
-    for (let i = 0; i < n; i++) if (base[i]! > 0 && Math.abs(residuals[i]!) * Math.sqrt(base[i]!) <= limit) kept++;
-    if (kept < minKept) return done;
+    let changed = false;
     for (let i = 0; i < n; i++) {
-      const keep = base[i]! > 0 && Math.abs(residuals[i]!) * Math.sqrt(base[i]!) <= limit;
-      const wi = keep ? base[i]! : 0;
-      if (wi !== w[i]) changed = true;
-      w[i] = wi;
+      if (next[i]! > 0) kept++;
+      if (next[i] !== w[i]) changed = true;
     }
+    if (kept < minKept) return done;
+    w.set(next);
     if (!changed) return done;
   }
+}
+
+/** In robust mode at most this share of the kept points (and at least one) leaves per round, the worst first. */
+const ROBUST_SHARE_PER_ROUND = 0.05;
+
+/**
+ * Weights of the next round: points beyond `limit` (normalised) are left out and left-out points
+ * within it come back. In robust mode only the worst few of the kept points leave per round, so
+ * that a fit bent by one gross outlier does not throw out the good points around it.
+ */
+function nextWeights(scores: Float64Array, base: Float64Array, w: Float64Array, limit: number, robust: boolean): Float64Array {
+  const n = scores.length;
+  const next = new Float64Array(n);
+  const beyond: number[] = [];
+  for (let i = 0; i < n; i++) {
+    if (!(base[i]! > 0)) continue;
+    if (Math.abs(scores[i]!) <= limit) next[i] = base[i]!;
+    else if (robust && w[i]! > 0) beyond.push(i);
+  }
+  if (robust) {
+    let nKept = 0;
+    for (let i = 0; i < n; i++) if (w[i]! > 0) nKept++;
+    beyond.sort((a, b) => Math.abs(scores[b]!) - Math.abs(scores[a]!));
+    const leave = Math.max(1, Math.ceil(ROBUST_SHARE_PER_ROUND * nKept));
+    for (const i of beyond.slice(leave)) next[i] = base[i]!;
+  }
+  return next;
+}
+
+/** r_i sqrt(w_i) with the given (unclipped) weights. */
+function normalisedResiduals(residuals: Float64Array, base: Float64Array): Float64Array {
+  return residuals.map((r, i) => r * Math.sqrt(base[i]!));
+}
+
+/**
+ * Studentised residuals: r_i sqrt(w_i) / sqrt(1 - h_i) for the kept points and / sqrt(1 + h_i)
+ * for the left-out ones, h_i = w_i a_i^T (A^T W A)^-1 a_i the leverage (Cook & Weisberg 1982,
+ * Residuals and Influence in Regression). A point that pulls the fit onto itself scores high.
+ */
+function studentised(design: Float64Array, n: number, nc: number, residuals: Float64Array, base: Float64Array, w: Float64Array, covariance: Float64Array): Float64Array {
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const row = i * nc;
+    let q = 0;
+    for (let a = 0; a < nc; a++) {
+      let s = 0;
+      for (let b = 0; b < nc; b++) s += covariance[a * nc + b]! * design[row + b]!;
+      q += design[row + a]! * s;
+    }
+    const h = base[i]! * q;
+    const kept = w[i]! > 0;
+    out[i] = (residuals[i]! * Math.sqrt(base[i]!)) / Math.sqrt(kept ? Math.max(1 - h, 1e-12) : 1 + h);
+  }
+  return out;
+}
+
+/** MAD x 1.4826 of the scores of the kept points (rows of weight > 0); their RMS when the MAD is 0. */
+function robustScale(scores: Float64Array, w: Float64Array): number {
+  const normalised: number[] = [];
+  let sumSq = 0;
+  for (let i = 0; i < scores.length; i++) {
+    if (!(w[i]! > 0)) continue;
+    const r = scores[i]!;
+    normalised.push(r);
+    sumSq += r * r;
+  }
+  const mad = madSigma(normalised);
+  return mad > 0 ? mad : Math.sqrt(sumSq / normalised.length);
 }

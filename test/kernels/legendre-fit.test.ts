@@ -55,3 +55,22 @@ describe('fitLegendre2D', () => {
     for (let y = 0; y < 10; y++) for (let x = 0; x <= 40; x++) expect(out[y * 41 + x]).toBeCloseTo(evalLegendre2D(model, x, y), 12);
   });
 });
+
+describe('fitLegendre1D robust clipping', () => {
+  it('with 13 points a gross outlier of high leverage hides from RMS clipping but not from robust clipping; the rest then match numpy legfit', () => {
+    const f = ref.fit1d;
+    const x = [...f.x.slice(0, 12), 50];
+    const y = [...f.y.slice(0, 12), evalLegendre1D({ kind: 'legendre1d', min: f.min, max: f.max, coeffs: f.coeffs }, 50) + 1];
+    const sigma = [...f.sigma.slice(0, 12), 0.03];
+    const w = sigma.map((s: number) => 1 / (s * s));
+    const range = { min: f.min, max: f.max };
+    // 1 A off (33 sigma) just beyond the lowest point: its leverage bends the fit onto it, so no
+    // residual exceeds 3 RMS; its studentised residual (Cook & Weisberg 1982) still stands out
+    const plain = fitLegendre1D(x, y, w, 4, range, { clipSigma: 3 });
+    expect(plain.used[12]).toBe(1);
+    const robust = fitLegendre1D(x, y, w, 4, range, { clipSigma: 3, robust: true });
+    expect(robust.used[12]).toBe(0);
+    expect(robust.nUsed).toBe(12);
+    robust.model.coeffs.forEach((c, k) => expect(Math.abs(c - ref.fit1dSubset.coeffs[k])).toBeLessThan(1e-6 * Math.max(1, Math.abs(ref.fit1dSubset.coeffs[k]))));
+  });
+});

@@ -73,7 +73,7 @@ export function fitMatches(peaks: MatchPeak[], wavelengths: Float64Array, pairs:
     const e = (Number.isFinite(p.xErr) ? Math.hypot(p.xErr, CENTROID_FLOOR_PX) : 1) * dispersion;
     w[i] = 1 / (e * e);
   }
-  const fit = fitLegendre1D(x, y, w, order, { min: 0, max: width - 1 }, { clipSigma });
+  const fit = fitLegendre1D(x, y, w, order, { min: 0, max: width - 1 }, { clipSigma, robust: true });
   let sum = 0;
   for (let i = 0; i < n; i++) {
     if (!fit.used[i]) continue;

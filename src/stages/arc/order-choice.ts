@@ -13,7 +13,7 @@ export function bic(wrss: number, n: number, k: number): number {
 /** Order 1..maxOrder (capped at n / 3, REFERENCE.md common practice) of lambda(x). */
 export function chooseOrder1D(x: Float64Array, y: Float64Array, w: Float64Array, maxOrder: number, range: { min: number; max: number }, clipSigma: number): number {
   const top = Math.max(1, Math.min(maxOrder, Math.floor(x.length / 3)));
-  const kept = fitLegendre1D(x, y, w, top, range, { clipSigma }).used;
+  const kept = fitLegendre1D(x, y, w, top, range, { clipSigma, robust: true }).used;
   const wk = Float64Array.from(w, (v, i) => (kept[i] ? v : 0));
   let best = 1;
   let bestBic = Infinity;
@@ -41,7 +41,7 @@ export function chooseOrderY(
 ): number {
   const nx = xOrder + 1;
   const top = Math.max(0, Math.min(maxYOrder, Math.floor(x.length / (3 * nx)) - 1));
-  const kept = fitLegendre2D(x, y, z, w, xOrder, top, range, { clipSigma }).used;
+  const kept = fitLegendre2D(x, y, z, w, xOrder, top, range, { clipSigma, robust: true }).used;
   const wk = Float64Array.from(w, (v, i) => (kept[i] ? v : 0));
   let best = 0;
   let bestBic = Infinity;

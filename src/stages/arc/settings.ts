@@ -18,7 +18,7 @@ export interface ArcSettings {
   maxXOrder: number;
   /** Highest order 'auto' may choose along y. Default 3. */
   maxYOrder: number;
-  /** Iterative clipping threshold of the solution fits, in RMS units. Default 3 (common practice). */
+  /** Iterative clipping threshold of the solution fits, in robust sigmas (MAD x 1.4826 of the normalised residuals). Default 3 (common practice). */
   clipSigma: number;
   /** Rows per band in which lines are detected and traced along the slit. Default 16. */
   rowBand: number;

@@ -1,0 +1,39 @@
+/**
+ * The 1-D solution of the central band: identification, the x order chosen by the data (or set),
+ * and a last match at a tolerance set by the scatter.
+ */
+import type { LampLine } from '../../physics/catalogues.js';
+import type { ArcPeak } from './centroids.js';
+import { identifyLines, type Identification } from './identify.js';
+import { CENTROID_FLOOR_PX, fitMatches, matchPeaks, type LineMatches } from './match.js';
+import { chooseOrder1D } from './order-choice.js';
+import type { ArcSettings } from './settings.js';
+
+/** Highest x order tried while identifying when the order is 'auto' (the BIC then picks the final one). */
+const IDENTIFY_ORDER = 5;
+
+export interface CentralSolution {
+  id: Identification;
+  /** Final matches of the central band (indexes into id.peaks and id.lines). */
+  matches: LineMatches;
+  xOrder: number;
+}
+
+export function solveCentralBand(clean: ArcPeak[], width: number, lineSigmaPx: number, arcName: string, lampLines: LampLine[], settings: ArcSettings): CentralSolution {
+  const idOrder = settings.xOrder === 'auto' ? Math.min(IDENTIFY_ORDER, settings.maxXOrder) : settings.xOrder;
+  const id = identifyLines({ peaks: clean, width, lineSigmaPx, arcName }, lampLines, settings, idOrder);
+  const wavelengths = Float64Array.from(id.lines, (l) => l.wavelength);
+  const first = id.matches;
+  let xOrder = idOrder;
+  if (settings.xOrder === 'auto') {
+    const kept = first.peak.filter((_, i) => first.fit.used[i]);
+    const x = Float64Array.from(kept, (k) => id.peaks[k]!.x);
+    const lam = Float64Array.from(first.line.filter((_, i) => first.fit.used[i]), (j) => wavelengths[j]!);
+    const w = Float64Array.from(kept, (k) => 1 / (Math.hypot(id.peaks[k]!.xErr, CENTROID_FLOOR_PX) * id.guess.dispersion) ** 2);
+    xOrder = chooseOrder1D(x, lam, w, settings.maxXOrder, { min: 0, max: width - 1 }, settings.clipSigma);
+  }
+  const refit = fitMatches(id.peaks, wavelengths, first, Math.min(xOrder, Math.floor(first.peak.length / 3)), width, id.guess.dispersion, settings.clipSigma);
+  const pairs = matchPeaks(id.peaks, wavelengths, refit.fit.model, (width - 1) / 2, width, Math.max(1, 5 * refit.rmsPx));
+  const matches = fitMatches(id.peaks, wavelengths, pairs, Math.min(xOrder, Math.floor(pairs.peak.length / 3)), width, id.guess.dispersion, settings.clipSigma);
+  return { id, matches, xOrder: matches.fit.model.coeffs.length - 1 };
+}
