@@ -13,7 +13,7 @@ import { describeFailure } from './failure.js';
 import { writeFileAtomic } from './io/atomic.js';
 import { clearTargetState, readTargetState, writeTargetState, type CurveThumbnail } from './io/state.js';
 import { libraryVersions } from './io/versions.js';
-import type { ResolvedSetup, ResolvedTarget } from './manifest/resolve.js';
+import { manifestRelative, type ResolvedSetup, type ResolvedTarget } from './manifest/resolve.js';
 import { targetReportInput } from './pipeline/report-input.js';
 import { runTargetStages, TARGET_STAGES } from './pipeline/target-stages.js';
 import { curveThumbnail, targetKeyNumbers, writeTargetProducts } from './pipeline/target-writes.js';
@@ -89,7 +89,8 @@ export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, 
     cacheKey: job.key,
     calibrationKey: job.setupKey,
     inputs: job.inputs,
-    settings: { setup: job.setup, target: job.target, calibration: calibration.settings } as Record<string, unknown>,
+    // Paths relative to the manifest's folder: products (the report shows these) must not depend on where the run sits.
+    settings: { setup: relativeFiles(job.setup, job.baseDir), target: relativeFiles(job.target, job.baseDir), calibration: calibration.settings } as Record<string, unknown>,
   };
   const diagnostics = () => [...calibration.diagnostics, ...timer.diagnostics];
   let outcome: TargetOutcome;
@@ -131,4 +132,14 @@ function writeProvenance(job: TargetJob, provenance: Record<string, unknown>): s
   const file = join(job.target.folder, 'provenance.json');
   writeFileAtomic(join(job.outputDir, file), `${JSON.stringify(provenance, null, 1)}\n`);
   return file;
+}
+
+/** A resolved setup or target with its file lists relative to the manifest's folder. */
+function relativeFiles<T extends object>(value: T, baseDir: string): T {
+  const out = { ...value } as Record<string, unknown>;
+  for (const key of ['bias', 'flat', 'arc', 'line_lists', 'frames']) {
+    const list = out[key];
+    if (Array.isArray(list)) out[key] = list.map((p: string) => manifestRelative(baseDir, p));
+  }
+  return out as T;
 }
