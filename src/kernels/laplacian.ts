@@ -35,3 +35,23 @@ export function positiveLaplacian(src: Float32Array, width: number, height: numb
   }
   return dst;
 }
+
+/** L+ at one pixel (same rule and edges as positiveLaplacian), for local updates. */
+export function positiveLaplacianAt(src: Float32Array, width: number, height: number, x: number, y: number): number {
+  const row = y * width;
+  const v2 = 2 * src[row + x]!;
+  const left = src[row + (x > 0 ? x - 1 : x)]!;
+  const right = src[row + (x + 1 < width ? x + 1 : x)]!;
+  const below = src[(y > 0 ? row - width : row) + x]!;
+  const above = src[(y + 1 < height ? row + width : row) + x]!;
+  let s = 0;
+  let t = v2 - left - below;
+  if (t > 0) s += t;
+  t = v2 - right - below;
+  if (t > 0) s += t;
+  t = v2 - left - above;
+  if (t > 0) s += t;
+  t = v2 - right - above;
+  if (t > 0) s += t;
+  return 0.25 * s;
+}

@@ -11,7 +11,7 @@
 import { selectInPlace } from './robust.js';
 
 /** Index of coordinate i (may be outside [0, n)) under the mirror rule. */
-function reflect(i: number, n: number): number {
+export function reflect(i: number, n: number): number {
   if (n === 1) return 0;
   const period = 2 * n;
   let k = i % period;

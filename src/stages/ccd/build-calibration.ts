@@ -15,7 +15,7 @@ import { findBadColumns } from './bad-columns.js';
 import { calibrateExposure, type ExposureCalibration } from './exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { combineFlats, normaliseFlat } from './flat.js';
-import { trimFrame, type TrimmedFrame } from './overscan.js';
+import { trimFrame } from './overscan.js';
 import type { CcdSettings } from './settings.js';
 
 export interface CalibrationFrames {
@@ -38,24 +38,21 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
       log.warn('gain-differs', `GAIN ${d.gain} differs from ${det.gain} of ${first.path}; using ${det.gain}`, { place: { file: f.path } });
     }
   }
-  const trim = (f: RawFrame): TrimmedFrame => trimFrame(f, det, settings.overscanOrder);
-  const biasTrim = frames.bias.map(trim);
-  const flatTrim = frames.flat.map(trim);
-  const arcTrim = frames.arc.map(trim);
+  // Frames are trimmed one kind at a time and dropped once combined, to keep memory low.
+  const arcTrim = frames.arc.map((f) => trimFrame(f, det, settings.overscanOrder));
   const tw = arcTrim[0]!.width;
   const th = arcTrim[0]!.height;
-  const overscanModel = (biasTrim[0] ?? flatTrim[0] ?? arcTrim[0]!).overscanModel;
+  const overscanModel = arcTrim[0]!.overscanModel;
   if (!det.overscan) log.info('no-overscan', 'no overscan section (BIASSEC): the bias level comes from the bias frames alone');
 
-  const bias = combineBias(biasTrim, det.gain, det.readNoiseE, tw, th, settings);
+  const bias = combineBias(frames.bias.map((f) => trimFrame(f, det, settings.overscanOrder, false)), det.gain, det.readNoiseE, tw, th, settings);
   if (bias.count === 0) log.warn('no-bias', 'no bias frames: only the overscan is subtracted');
-  const minusBias = (t: TrimmedFrame): Float32Array => {
-    const out = new Float32Array(t.data.length);
-    for (let i = 0; i < out.length; i++) out[i] = t.data[i]! - bias.data[i]!;
-    return out;
+  const minusBias = (data: Float32Array): Float32Array => {
+    for (let i = 0; i < data.length; i++) data[i] = data[i]! - bias.data[i]!;
+    return data;
   };
 
-  const evidence = dispersionAxisFromArc(minusBias(arcTrim[0]!), tw, th);
+  const evidence = dispersionAxisFromArc(minusBias(arcTrim[0]!.data.slice()), tw, th);
   const clear = evidence.ratio >= CLEAR_AXIS_RATIO || evidence.ratio <= 1 / CLEAR_AXIS_RATIO;
   let axis = settings.dispersionAxis === 'auto' ? evidence.axis : settings.dispersionAxis;
   if (settings.dispersionAxis === 'auto' && !clear) {
@@ -66,8 +63,9 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   axis = axis === 'y' ? 'y' : 'x';
   const orientation = { transpose: axis === 'y', flipX: false };
 
-  const flatsMinusBias = flatTrim.map(minusBias);
+  const flatsMinusBias = frames.flat.map((f) => minusBias(trimFrame(f, det, settings.overscanOrder, false).data));
   const combinedFlat = flatsMinusBias.length > 0 ? combineFlats(flatsMinusBias, det.gain, det.readNoiseE, settings) : null;
+  flatsMinusBias.length = 0;
   const bad = findBadColumns(bias.count > 0 ? bias.data : null, combinedFlat?.data ?? null, tw, th, det.readNoiseE / det.gain, settings.badColumnSigma);
   const badRaw = new Uint16Array(tw * th);
   for (const x of bad.columns) for (let y = 0; y < th; y++) badRaw[y * tw + x] = MASK_BITS.badColumn;

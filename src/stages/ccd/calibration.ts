@@ -38,7 +38,7 @@ export interface CcdCalibration {
   badColumns: number[];
   /** The first calibration frame: science frames must match its shape, binning and data section. */
   reference: ReferenceFrame;
-  /** Overscan fit along the strip (ADU) of the first bias (or calibration) frame, null without overscan. */
+  /** Overscan fit along the strip (ADU) of the first arc frame, null without overscan. */
   overscanModel: Legendre1D | null;
   /** Arc structure evidence: mean |dI/dx| over mean |dI/dy| in the raw frame. */
   axisRatio: number;

@@ -48,45 +48,30 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
   const startRank = Math.max(0, Math.floor((nExp - 1) / 2) - 1);
   const all = (1 << nExp) - 1;
   const rejectBits = new Uint32Array(n);
+  const scis = exposures.map((e) => e.sci);
+  const t = Float64Array.from(exptimesS);
   const rates = new Float64Array(nExp);
   let hits = 0;
   if (nExp > 1) {
-    const variance = new Float64Array(nExp);
+    const values = new Float64Array(nExp);
+    const test: KeptTest = { values, t, nExp, constant: 0, flat: 1, rel2, threshold };
     for (let p = 0; p < n; p++) {
-      for (let i = 0; i < nExp; i++) rates[i] = exposures[i]!.sci[p]! / exptimesS[i]!;
-      const startRate = orderStatistic(rates, nExp, startRank);
+      for (let i = 0; i < nExp; i++) values[i] = scis[i]![p]!;
       const f = cal.masterFlat[p]!;
-      const constant = k0 / (f * f);
-      // Round 0 keeps the exposures at or below the starting rate; later rounds test each
-      // exposure against the others that are kept (leave-one-out), so a value never judges itself.
-      let kept = 0;
-      for (let i = 0; i < nExp; i++) if (rates[i]! <= startRate) kept |= 1 << i;
-      for (let round = 0; round < MAX_ROUNDS; round++) {
-        let next = 0;
-        for (let i = 0; i < nExp; i++) {
-          let sumV = 0;
-          let sumT = 0;
-          for (let j = 0; j < nExp; j++) {
-            if (j === i || !(kept & (1 << j))) continue;
-            sumV += exposures[j]!.sci[p]!;
-            sumT += exptimesS[j]!;
-          }
-          if (sumT === 0) {
-            if (kept & (1 << i)) next |= 1 << i; // the lone reference stays
-            continue;
-          }
-          const rate = sumV / sumT;
-          let refVar = 0;
-          for (let j = 0; j < nExp; j++) {
-            if (j === i || !(kept & (1 << j))) continue;
-            refVar += noiseModel(rate * exptimesS[j]!, constant, f, rel2);
-          }
-          const e = rate * exptimesS[i]!;
-          variance[i] = noiseModel(e, constant, f, rel2) + (refVar * exptimesS[i]! * exptimesS[i]!) / (sumT * sumT);
-          if (exposures[i]!.sci[p]! - e <= threshold * Math.sqrt(variance[i]!)) next |= 1 << i;
+      test.constant = k0 / (f * f);
+      test.flat = f;
+      // Most pixels: every exposure agrees with the others; otherwise search from a low order statistic.
+      let kept = keptAgainstOthers(test, all);
+      if (kept !== all) {
+        for (let i = 0; i < nExp; i++) rates[i] = values[i]! / t[i]!;
+        const startRate = orderStatistic(rates, nExp, startRank);
+        kept = 0;
+        for (let i = 0; i < nExp; i++) if (rates[i]! <= startRate) kept |= 1 << i;
+        for (let round = 0; round < MAX_ROUNDS; round++) {
+          const next = keptAgainstOthers(test, kept);
+          if (next === kept) break;
+          kept = next;
         }
-        if (next === kept) break;
-        kept = next;
       }
       const bits = all & ~kept;
       if (bits) {
@@ -97,9 +82,12 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
   }
   const grownBits = settings.crGrow > 0 && hits > 0 ? grow(rejectBits, width, height, settings.crGrow) : rejectBits;
 
-  const sci = new Float32Array(n);
-  const variance = new Float32Array(n);
-  const mask = new Uint16Array(n);
+  const vars = exposures.map((e) => e.var);
+  const masks = exposures.map((e) => e.mask);
+  // One exposure: its own arrays become the product (nothing else holds them).
+  const sci = nExp === 1 ? scis[0]! : new Float32Array(n);
+  const variance = nExp === 1 ? vars[0]! : new Float32Array(n);
+  const mask = nExp === 1 ? masks[0]! : new Uint16Array(n);
   const rejected = new Uint8Array(n);
   let grown = 0;
   for (let p = 0; p < n; p++) {
@@ -108,39 +96,86 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
     if (out === all) {
       // Every exposure rejected: keep the one with the lowest rate, flagged.
       let best = 0;
-      for (let i = 1; i < nExp; i++) if (exposures[i]!.sci[p]! / exptimesS[i]! < exposures[best]!.sci[p]! / exptimesS[best]!) best = i;
+      for (let i = 1; i < nExp; i++) if (scis[i]![p]! / t[i]! < scis[best]![p]! / t[best]!) best = i;
       out = all & ~(1 << best);
       flags |= MASK_BITS.cosmicRay;
     }
     let sumV = 0;
     let sumVar = 0;
     let sumT = 0;
+    let used = 0;
     for (let i = 0; i < nExp; i++) {
-      const m = exposures[i]!.mask[p]!;
+      const m = masks[i]![p]!;
       flags |= m & MASK_BITS.saturated;
       if (out & (1 << i)) continue;
       flags |= m;
-      sumV += exposures[i]!.sci[p]!;
-      sumVar += exposures[i]!.var[p]!;
-      sumT += exptimesS[i]!;
+      sumV += scis[i]![p]!;
+      sumVar += vars[i]![p]!;
+      sumT += t[i]!;
+      used++;
     }
     const value = (total * sumV) / sumT;
     const f = cal.masterFlat[p]!;
-    const biasScale = (total * (nExp - popcount(out))) / sumT;
+    const biasScale = (total * used) / sumT;
     sci[p] = value;
     variance[p] = (total * total * sumVar) / (sumT * sumT) + (biasScale * biasScale * biasE2) / (f * f) + (value * value * cal.flatVariance[p]!) / (f * f);
     mask[p] = flags;
-    const count = popcount(out);
-    rejected[p] = count;
-    grown += count;
+    if (out) {
+      const count = nExp - used;
+      rejected[p] = count;
+      grown += count;
+    }
   }
   return { sci, var: variance, mask, rejected, exptimeS: total, hits, grown };
 }
 
-/** Variance (e^2) of an exposure expected to hold e electrons: read noise and bias, Poisson, relative scatter. */
-function noiseModel(e: number, constant: number, flat: number, rel2: number): number {
-  const ep = e > 0 ? e : 0;
-  return constant + ep / flat + rel2 * ep * ep;
+interface KeptTest {
+  values: Float64Array;
+  t: Float64Array;
+  nExp: number;
+  /** Read noise and bias through the flat, e^2. */
+  constant: number;
+  flat: number;
+  rel2: number;
+  threshold: number;
+}
+
+/**
+ * The exposures that pass against the others of `kept` (leave-one-out); an exposure that is the
+ * only one kept stays. Noise model s^2(e) = constant + e / F + rel2 e^2 with e = max(r t, 0);
+ * the reference's variance sums it over the others in closed form.
+ */
+function keptAgainstOthers(c: KeptTest, kept: number): number {
+  let sumV = 0;
+  let sumT = 0;
+  let sumT2 = 0;
+  let count = 0;
+  for (let j = 0; j < c.nExp; j++) {
+    if (!(kept & (1 << j))) continue;
+    sumV += c.values[j]!;
+    sumT += c.t[j]!;
+    sumT2 += c.t[j]! * c.t[j]!;
+    count++;
+  }
+  let next = 0;
+  for (let i = 0; i < c.nExp; i++) {
+    const self = kept & (1 << i) ? 1 : 0;
+    const others = count - self;
+    if (others === 0) {
+      next |= self << i;
+      continue;
+    }
+    const ti = c.t[i]!;
+    const oT = sumT - self * ti;
+    const oT2 = sumT2 - self * ti * ti;
+    const rate = (sumV - self * c.values[i]!) / oT;
+    const rp = rate > 0 ? rate : 0;
+    const refVar = others * c.constant + (rp * oT) / c.flat + c.rel2 * rp * rp * oT2;
+    const e = rp * ti;
+    const variance = c.constant + e / c.flat + c.rel2 * e * e + (refVar * ti * ti) / (oT * oT);
+    if (c.values[i]! - rate * ti <= c.threshold * Math.sqrt(variance)) next |= 1 << i;
+  }
+  return next;
 }
 
 /** k-th smallest of a[0..n) by insertion sort of a copy (n is a handful). */

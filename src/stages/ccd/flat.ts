@@ -11,6 +11,7 @@ import { evalLegendre1D } from '../../kernels/legendre.js';
 import { median } from '../../kernels/robust.js';
 import { MASK_BITS } from '../../products/frame.js';
 import { sampledMedian } from './level.js';
+import { RowLegendreFitter } from './row-fit.js';
 import type { CcdSettings } from './settings.js';
 
 export interface CombinedFlat {
@@ -21,15 +22,14 @@ export interface CombinedFlat {
   count: number;
 }
 
-/** `frames`: bias-subtracted flats, ADU. Each is scaled by levelAdu / its own sampled median. */
+/** `frames`: bias-subtracted flats, ADU, each scaled in place by levelAdu / its own sampled median. */
 export function combineFlats(frames: Float32Array[], gain: number, readNoiseE: number, settings: CcdSettings): CombinedFlat {
   const levels = frames.map(sampledMedian);
   const levelAdu = levels.reduce((a, b) => a + b, 0) / levels.length;
   const scaled = frames.map((f, i) => {
     const k = levelAdu / levels[i]!;
-    const out = new Float32Array(f.length);
-    for (let p = 0; p < f.length; p++) out[p] = f[p]! * k;
-    return out;
+    for (let p = 0; p < f.length; p++) f[p] = f[p]! * k;
+    return f;
   });
   const data = new Float32Array(frames[0]!.length);
   const rnAdu = readNoiseE / gain;
@@ -72,13 +72,13 @@ export function normaliseFlat(
   markUnlit(combined, width, height, settings.illuminationMinimum, mask);
   const model = new Float32Array(n);
   const unfitRows: number[] = [];
-  const xs = new Float64Array(width);
-  for (let x = 0; x < width; x++) xs[x] = x;
-  const weights = new Float64Array(width);
   const order = settings.flatOrder;
   const fitOptions = { clipSigma: 3, maxIterations: 3 };
   if (settings.flatKeepsIllumination) {
     // One spectral shape: column medians over the illuminated rows, fitted along x.
+    const xs = new Float64Array(width);
+    for (let x = 0; x < width; x++) xs[x] = x;
+    const weights = new Float64Array(width);
     const shape = new Float64Array(width);
     const column = new Float64Array(height);
     for (let x = 0; x < width; x++) {
@@ -101,22 +101,22 @@ export function normaliseFlat(
     const mean = count > 0 ? sum / count : 1; // normalise the illumination to a mean of 1
     for (let i = 0; i < n; i++) model[i] = values[i % width]! * mean;
   } else {
-    const row = new Float64Array(width);
+    const fitter = new RowLegendreFitter(width, order);
+    const usable = new Uint8Array(width);
     for (let y = 0; y < height; y++) {
-      for (let x = 0; x < width; x++) row[x] = combined[y * width + x]!;
+      const row = combined.subarray(y * width, (y + 1) * width);
+      const rowModel = model.subarray(y * width, (y + 1) * width);
       // Bad columns stay out of the fit, unless they are the whole row (a transposed frame).
-      let usable = rowWeights(mask, y, width, MASK_BITS.outsideData | MASK_BITS.badColumn, weights);
-      if (usable < 2 * (order + 1)) usable = rowWeights(mask, y, width, MASK_BITS.outsideData, weights);
-      if (usable < 2 * (order + 1)) {
+      const fitted =
+        (rowUsable(mask, y, width, MASK_BITS.outsideData | MASK_BITS.badColumn, usable) >= 2 * (order + 1) && fitter.fit(row, usable, rowModel, fitOptions)) ||
+        (rowUsable(mask, y, width, MASK_BITS.outsideData, usable) >= 2 * (order + 1) && fitter.fit(row, usable, rowModel, fitOptions));
+      if (!fitted) {
         unfitRows.push(y);
         for (let x = 0; x < width; x++) {
           mask[y * width + x] = mask[y * width + x]! | MASK_BITS.outsideData;
           model[y * width + x] = 1;
         }
-        continue;
       }
-      const fit = fitLegendre1D(xs, row, weights, order, { min: 0, max: width - 1 }, fitOptions);
-      for (let x = 0; x < width; x++) model[y * width + x] = evalLegendre1D(fit.model, x);
     }
   }
   const flat = new Float32Array(n);
@@ -138,14 +138,14 @@ export function normaliseFlat(
   return { flat, variance, mask, model, unfitRows };
 }
 
-/** weights[x] = 0 where the row's mask has any of `bits`, else 1; returns the count of ones. */
-function rowWeights(mask: Uint16Array, y: number, width: number, bits: number, weights: Float64Array): number {
-  let usable = 0;
+/** usable[x] = 0 where the row's mask has any of `bits`, else 1; returns the count of ones. */
+function rowUsable(mask: Uint16Array, y: number, width: number, bits: number, usable: Uint8Array): number {
+  let count = 0;
   for (let x = 0; x < width; x++) {
-    weights[x] = mask[y * width + x]! & bits ? 0 : 1;
-    usable += weights[x]!;
+    usable[x] = mask[y * width + x]! & bits ? 0 : 1;
+    count += usable[x]!;
   }
-  return usable;
+  return count;
 }
 
 /**

@@ -15,7 +15,7 @@ export interface TrimmedFrame {
   height: number;
   /** ADU after the overscan fit is subtracted. */
   data: Float32Array;
-  /** MASK_BITS.saturated where the raw value reached the saturation level. */
+  /** MASK_BITS.saturated where the raw value reached the saturation level (empty when not asked for). */
   mask: Uint16Array;
   /** The fitted overscan level (ADU) along the strip, or null without an overscan. */
   overscanModel: Legendre1D | null;
@@ -25,24 +25,28 @@ export interface TrimmedFrame {
   overscanAlong: 'y' | 'x' | null;
 }
 
-export function trimFrame(frame: RawFrame, det: Detector, overscanOrder: number): TrimmedFrame {
+/** `withMask` false leaves `mask` empty (bias frames: saturation is not looked at). */
+export function trimFrame(frame: RawFrame, det: Detector, overscanOrder: number, withMask = true): TrimmedFrame {
   const { data: s } = det;
   const width = s.x1 - s.x0;
   const height = s.y1 - s.y0;
   const out = new Float32Array(width * height);
-  const mask = new Uint16Array(width * height);
+  const mask = new Uint16Array(withMask ? width * height : 0);
   const level = overscanLevel(frame, det, overscanOrder);
+  const src = frame.data;
+  const sat = det.saturationAdu;
   // level.values is indexed by raw y (column strip) or raw x (row strip), full frame length.
+  const byColumn = level.along === 'x' ? level.values.subarray(s.x0, s.x1) : null;
   for (let y = 0; y < height; y++) {
-    const ry = y + s.y0;
-    const rowLevel = level.along === 'y' ? level.values[ry]! : 0;
-    const src = ry * frame.width + s.x0;
-    const dst = y * width;
-    for (let x = 0; x < width; x++) {
-      const v = frame.data[src + x]!;
-      if (v >= det.saturationAdu) mask[dst + x] = MASK_BITS.saturated;
-      out[dst + x] = v - (level.along === 'x' ? level.values[x + s.x0]! : rowLevel);
+    const from = (y + s.y0) * frame.width + s.x0;
+    const to = y * width;
+    if (byColumn) {
+      for (let x = 0; x < width; x++) out[to + x] = src[from + x]! - byColumn[x]!;
+    } else {
+      const rowLevel = level.along === 'y' ? level.values[y + s.y0]! : 0;
+      for (let x = 0; x < width; x++) out[to + x] = src[from + x]! - rowLevel;
     }
+    if (withMask) for (let x = 0; x < width; x++) if (src[from + x]! >= sat) mask[to + x] = MASK_BITS.saturated;
   }
   return { width, height, data: out, mask, overscanModel: level.model, overscanRmsAdu: level.rms, overscanAlong: level.along };
 }

@@ -1,0 +1,114 @@
+/**
+ * Legendre fits along x of every row of an image (the flat's shape along the dispersion), with
+ * the clipping rule of kernels/legendre-fit.ts (clip |r| > clipSigma sqrt(chi2 / n_kept), points
+ * may return, stop when the kept set holds). Faster than one fitLegendre1D per row on full
+ * frames: the design matrix and the normal matrix of a fully usable row are built once, and each
+ * row or clipping round only subtracts the outer products of the points it leaves out.
+ */
+import { choleskyFactor, choleskySolve } from '../../kernels/cholesky.js';
+import { legendreBasis, normalise } from '../../kernels/legendre.js';
+
+export interface RowFitOptions {
+  clipSigma: number;
+  maxIterations: number;
+}
+
+export class RowLegendreFitter {
+  private readonly nc: number;
+  private readonly design: Float64Array;
+  private readonly fullNormal: Float64Array;
+  private readonly normal: Float64Array;
+  private readonly work: Float64Array;
+  private readonly rhs: Float64Array;
+  private readonly coeffs: Float64Array;
+  private readonly kept: Uint8Array;
+  private readonly residual: Float64Array;
+
+  /** Series of `order` over x = 0 .. width - 1 (u = normalise(x, 0, width - 1)). */
+  constructor(readonly width: number, readonly order: number) {
+    const nc = order + 1;
+    this.nc = nc;
+    this.design = new Float64Array(width * nc);
+    const basis = new Float64Array(nc);
+    for (let x = 0; x < width; x++) this.design.set(legendreBasis(normalise(x, 0, width - 1), order, basis), x * nc);
+    this.fullNormal = new Float64Array(nc * nc);
+    for (let x = 0; x < width; x++) this.accumulate(this.fullNormal, x, 1);
+    this.normal = new Float64Array(nc * nc);
+    this.work = new Float64Array(nc * nc);
+    this.rhs = new Float64Array(nc);
+    this.coeffs = new Float64Array(nc);
+    this.kept = new Uint8Array(width);
+    this.residual = new Float64Array(width);
+  }
+
+  /**
+   * Fit `row` where `usable` is 1, writing the model at every x into `model`. Returns false (and
+   * leaves `model` alone) when fewer than 2 (order + 1) points are usable.
+   */
+  fit(row: ArrayLike<number>, usable: Uint8Array, model: Float32Array, options: RowFitOptions): boolean {
+    const { width, nc, design, normal, kept, residual } = this;
+    const minKept = nc + 1;
+    let count = 0;
+    for (let x = 0; x < width; x++) count += usable[x]!;
+    if (count < 2 * nc) return false;
+    normal.set(this.fullNormal);
+    this.rhs.fill(0);
+    for (let x = 0; x < width; x++) {
+      kept[x] = usable[x]!;
+      if (kept[x]) this.addRhs(row[x]!, x, 1);
+      else this.accumulate(normal, x, -1);
+    }
+    for (let iter = 0; ; iter++) {
+      if (!this.solve()) return false;
+      let chi2 = 0;
+      for (let x = 0; x < width; x++) {
+        let m = 0;
+        for (let k = 0; k < nc; k++) m += design[x * nc + k]! * this.coeffs[k]!;
+        residual[x] = row[x]! - m;
+        if (kept[x]) chi2 += residual[x]! * residual[x]!;
+      }
+      if (iter >= options.maxIterations || !(chi2 > 0)) break;
+      const limit = options.clipSigma * Math.sqrt(chi2 / count);
+      let next = 0;
+      for (let x = 0; x < width; x++) if (usable[x] && Math.abs(residual[x]!) <= limit) next++;
+      if (next < minKept) break;
+      let changed = false;
+      for (let x = 0; x < width; x++) {
+        const keep = usable[x] && Math.abs(residual[x]!) <= limit ? 1 : 0;
+        if (keep === kept[x]) continue;
+        changed = true;
+        const sign = keep ? 1 : -1;
+        this.accumulate(normal, x, sign);
+        this.addRhs(row[x]!, x, sign);
+        kept[x] = keep;
+      }
+      count = next;
+      if (!changed) break;
+    }
+    for (let x = 0; x < width; x++) model[x] = row[x]! - residual[x]!;
+    return true;
+  }
+
+  private accumulate(target: Float64Array, x: number, sign: number): void {
+    const { nc, design } = this;
+    const o = x * nc;
+    for (let a = 0; a < nc; a++) {
+      const da = sign * design[o + a]!;
+      for (let b = 0; b <= a; b++) target[a * nc + b] += da * design[o + b]!;
+    }
+  }
+
+  private addRhs(y: number, x: number, sign: number): void {
+    const o = x * this.nc;
+    for (let a = 0; a < this.nc; a++) this.rhs[a] += sign * y * this.design[o + a]!;
+  }
+
+  private solve(): boolean {
+    const { nc, normal, work } = this;
+    for (let a = 0; a < nc; a++) for (let b = 0; b <= a; b++) work[a * nc + b] = normal[a * nc + b]!;
+    if (!choleskyFactor(work, nc)) return false;
+    this.coeffs.set(this.rhs);
+    choleskySolve(work, nc, this.coeffs);
+    return true;
+  }
+}
