@@ -6,6 +6,15 @@
 import { levenbergMarquardt } from '../../kernels/levenberg-marquardt.js';
 import { GroupModel, type GroupSpec } from './group-model.js';
 
+/**
+ * Iteration budget and chi-square tolerance of a group fit: a line fit with signal converges in
+ * 2-6 steps; 50 only cuts short the slow wander of noise-only fits (flagged notConverged). A
+ * relative chi-square change of 1e-6 is about 1e-4 in absolute chi-square, far below the 1 that
+ * moves a parameter by its error.
+ */
+const MAX_ITERATIONS = 50;
+const REL_TOLERANCE = 1e-6;
+
 export interface Window {
   /** Wavelength (Angstrom, air) and width (Angstrom) of each pixel. */
   wave: Float64Array;
@@ -71,7 +80,7 @@ export function fitGroup(win: Window, spec: GroupSpec, guess: GroupGuess, option
     lower[model.fluxStart + j] = 0;
   }
   start[model.c0Index] = guess.c0;
-  const r = levenbergMarquardt(model, win.wave, win.data, win.weight, start, { lower, upper });
+  const r = levenbergMarquardt(model, win.wave, win.data, win.weight, start, { lower, upper, maxIterations: MAX_ITERATIONS, relTolerance: REL_TOLERANCE });
   const scale = options.scaleByChi2 ? chi2Scale(r.chi2, r.dof) : 1;
   const err = (k: number): number => Math.sqrt(r.covariance[k * n + k]!) * scale;
   const flux: number[] = [];

@@ -48,7 +48,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   };
 
   // Centre row: the continuum peak in the galaxy region (5-row running mean), else the emission peak.
-  const allColumns = continuumProfile(frame, wave, [], BAD);
+  const allColumns = continuumProfile(frame, wave, [], BAD, 4);
   const centreRow = findCentreRow(allColumns, sky);
 
   // Starting velocity.

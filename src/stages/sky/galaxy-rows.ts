@@ -6,13 +6,6 @@
  */
 import { madSigma, median, medianOfBuffer } from '../../kernels/robust.js';
 
-export interface SlitProfiles {
-  /** Median over the good pixels of each row (electrons per pixel). */
-  continuum: Float64Array;
-  /** Per row: sum over pixels of max(0, z - 3), z the noise-normalised excess over the sky model with the row median removed. */
-  emission: Float64Array;
-}
-
 /** Median of each row over pixels with good[i] set (NaN for a row without any). */
 export function rowMedians(width: number, height: number, values: Float32Array, good: Uint8Array, scratch: Float64Array): Float64Array {
   const out = new Float64Array(height);
@@ -27,18 +20,36 @@ export function rowMedians(width: number, height: number, values: Float32Array, 
   return out;
 }
 
-/** Emission score per row from the residual image (data minus a first sky model). */
-export function emissionScore(width: number, height: number, residual: Float32Array, variance: Float32Array, good: Uint8Array, scratch: Float64Array): Float64Array {
+/**
+ * Emission score per row from the residual image (data minus a first sky model): residuals and
+ * variances summed over a block of 2 * halfRows + 1 rows centred on the row (faint extended
+ * emission stands out in the block long before it does in one row), each block row's median
+ * removed, then sum over columns of max(0, z - 3) with z the block's noise-normalised excess.
+ */
+export function emissionScore(width: number, height: number, residual: Float32Array, variance: Float32Array, good: Uint8Array, halfRows: number, scratch: Float64Array): Float64Array {
   const level = rowMedians(width, height, residual, good, scratch);
-  const out = new Float64Array(height);
-  for (let y = 0; y < height; y++) {
+  const sum = new Float64Array(width);
+  const vsum = new Float64Array(width);
+  const count = new Int32Array(width);
+  const add = (y: number, sign: number): void => {
     const base = level[y]!;
-    if (base !== base) continue;
+    if (base !== base) return;
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      if (!good[i] || !(variance[i]! > 0)) continue;
+      sum[x] += sign * (residual[i]! - base);
+      vsum[x] += sign * variance[i]!;
+      count[x] += sign;
+    }
+  };
+  const out = new Float64Array(height);
+  for (let y = 0; y < Math.min(height, halfRows); y++) add(y, 1);
+  for (let y = 0; y < height; y++) {
+    if (y + halfRows < height) add(y + halfRows, 1);
+    if (y - halfRows - 1 >= 0) add(y - halfRows - 1, -1);
     let s = 0;
     for (let x = 0; x < width; x++) {
-      const i = y * width + x;
-      if (!good[i] || !(variance[i]! > 0)) continue;
-      const z = (residual[i]! - base) / Math.sqrt(variance[i]!);
+      if (count[x]! <= 0 || !(vsum[x]! > 0)) continue;
+      const z = sum[x]! / Math.sqrt(vsum[x]!);
       if (z > 3) s += z - 3;
     }
     out[y] = s;
@@ -48,10 +59,9 @@ export function emissionScore(width: number, height: number, residual: Float32Ar
 
 /**
  * Rows standing out in a profile: above a robust baseline (a straight line in y fitted to the
- * rows, dropping high ones iteratively) by more than nSigma robust sigmas and by at least
- * `minExcess` (for scores that are exactly zero on most rows, where the robust sigma vanishes).
+ * rows, dropping high ones iteratively) by more than nSigma robust sigmas.
  */
-export function rowsAbove(profile: Float64Array, nSigma: number, candidate: Uint8Array, minExcess = 0): Uint8Array {
+export function rowsAbove(profile: Float64Array, nSigma: number, candidate: Uint8Array): Uint8Array {
   const h = profile.length;
   const keep = Uint8Array.from(candidate);
   const resid = new Float64Array(h);
@@ -73,7 +83,7 @@ export function rowsAbove(profile: Float64Array, nSigma: number, candidate: Uint
     if (changed === 0) break;
   }
   const out = new Uint8Array(h);
-  const threshold = Math.max(nSigma * sigma, minExcess, 1e-12);
+  const threshold = Math.max(nSigma * sigma, 1e-12);
   for (let y = 0; y < h; y++) if (candidate[y] && profile[y]! - (a + b * y) > threshold) out[y] = 1;
   return out;
 }

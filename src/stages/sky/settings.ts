@@ -28,7 +28,7 @@ export interface SkySettings {
   detectSigma: number;
   /** Pixels further than this many noise sigmas from the sky model are left out of the fit. Default 4 (common practice). */
   clipSigma: number;
-  /** Rounds of fit and clip. Default 3. */
+  /** Rounds of clipping, each followed by a refit. Default 2. */
   clipIterations: number;
   /** Fewer sky rows than this is warned about (`sky.little-sky`). Default 20. */
   minSkyRows: number;
@@ -42,6 +42,6 @@ export const DEFAULT_SKY_SETTINGS: Readonly<SkySettings> = Object.freeze({
   gapRows: 10,
   detectSigma: 5,
   clipSigma: 4,
-  clipIterations: 3,
+  clipIterations: 2,
   minSkyRows: 20,
 });

@@ -36,11 +36,12 @@ export interface SkySpline {
   covariance: Float64Array;
   /** Slit factor g per row. */
   slit: Float64Array;
-  /** Pixels used in the last fit. */
+  /** Pixels used in the last fit, and those its clipping dropped. */
   used: number;
+  dropped: number;
 }
 
-export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: number, clipSigma: number, iterations: number): SkySpline | null {
+export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: number, clipSigma: number, iterations: number, rowStep = 1): SkySpline | null {
   const { width, height, wave } = input;
   let lo = Infinity;
   let hi = -Infinity;
@@ -51,51 +52,92 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
   const dispersion = (hi - lo) / Math.max(1, width - 1);
   const slit = new Float64Array(height).fill(1);
   if (order > 0) {
-    const coarse = fitSpline(input, UniformCubicBSpline.covering(lo, hi, dispersion), slit);
+    // g needs few pixels: every fourth row is plenty.
+    const coarse = fitSpline(input, UniformCubicBSpline.covering(lo, hi, dispersion), slit, null, clipSigma, Math.max(rowStep, 4));
     if (coarse === null) return null;
     fitSlit(input, coarse, order);
   }
   const spline = UniformCubicBSpline.covering(lo, hi, knotSpacingPx * dispersion);
-  let fit: SkySpline | null = null;
-  for (let round = 0; round <= iterations; round++) {
-    fit = fitSpline(input, spline, slit);
-    if (fit === null || round === iterations || clip(input, fit, clipSigma) === 0) break;
-  }
+  let fit = fitSpline(input, spline, slit, null, clipSigma, rowStep);
+  // Each further round clips against the previous model while it accumulates the next fit.
+  for (let round = 0; round < iterations && fit !== null && fit.dropped !== 0; round++) fit = fitSpline(input, spline, slit, fit, clipSigma, rowStep);
   return fit;
 }
 
-function fitSpline(input: SkyFitInput, spline: UniformCubicBSpline, slit: Float64Array): SkySpline | null {
+/**
+ * Least squares of the spline on the used pixels of every rowStep-th row; with `previous`, pixels
+ * further than clipSigma noise sigmas from it are first dropped from `use`.
+ */
+function fitSpline(input: SkyFitInput, spline: UniformCubicBSpline, slit: Float64Array, previous: SkySpline | null, clipSigma: number, rowStep: number): SkySpline | null {
   const { width, height, sci, wave, use } = input;
+  const variance = input.var;
   const n = spline.nBasis;
-  const w4 = BAND + 1;
-  const normal = new Float64Array(n * w4);
+  const normal = new Float64Array(n * 4);
   const rhs = new Float64Array(n);
-  const b = new Float64Array(4);
+  const start = spline.start;
+  const inv = 1 / spline.spacing;
+  const last = spline.nIntervals - 1;
+  const pc = previous?.coeffs;
+  const clip2 = clipSigma * clipSigma;
   let used = 0;
-  for (let y = 0; y < height; y++) {
+  let dropped = 0;
+  for (let y = 0; y < height; y += rowStep) {
     const g = slit[y]!;
-    for (let x = 0; x < width; x++) {
-      const i = y * width + x;
+    const gPrev = previous ? previous.slit[y]! : 0;
+    for (let x = 0, i = y * width; x < width; x++, i++) {
       if (!use[i]) continue;
-      const v = input.var[i]!;
+      const v = variance[i]!;
       if (!(v > 0)) continue;
-      used++;
-      const wt = 1 / v;
-      const k = spline.weights(wave[i]!, b);
-      for (let p = 0; p < 4; p++) {
-        const bp = g * b[p]!;
-        rhs[k + p] += wt * bp * sci[i]!;
-        for (let q = 0; q <= p; q++) normal[(k + p) * w4 + (p - q)] += wt * bp * g * b[q]!;
+      // Uniform cubic B-spline weights, inlined (see kernels/bspline.ts).
+      const t = (wave[i]! - start) * inv;
+      let k = Math.floor(t);
+      if (k < 0) k = 0;
+      else if (k > last) k = last;
+      const u = t - k;
+      const u2 = u * u;
+      const u3 = u2 * u;
+      const r = 1 - u;
+      const b0 = (r * r * r) / 6;
+      const b1 = (3 * u3 - 6 * u2 + 4) / 6;
+      const b2 = (-3 * u3 + 3 * u2 + 3 * u + 1) / 6;
+      const b3 = u3 / 6;
+      const d = sci[i]!;
+      if (pc) {
+        const res = d - gPrev * (pc[k]! * b0 + pc[k + 1]! * b1 + pc[k + 2]! * b2 + pc[k + 3]! * b3);
+        if (res * res > clip2 * v) {
+          use[i] = 0;
+          dropped++;
+          continue;
+        }
       }
+      used++;
+      const w = (g * g) / v;
+      const wd = (g * d) / v;
+      rhs[k] += wd * b0;
+      rhs[k + 1] += wd * b1;
+      rhs[k + 2] += wd * b2;
+      rhs[k + 3] += wd * b3;
+      const a = k * 4;
+      // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q).
+      normal[a] += w * b0 * b0;
+      normal[a + 4] += w * b1 * b1;
+      normal[a + 5] += w * b1 * b0;
+      normal[a + 8] += w * b2 * b2;
+      normal[a + 9] += w * b2 * b1;
+      normal[a + 10] += w * b2 * b0;
+      normal[a + 12] += w * b3 * b3;
+      normal[a + 13] += w * b3 * b2;
+      normal[a + 14] += w * b3 * b1;
+      normal[a + 15] += w * b3 * b0;
     }
   }
   if (used < n / 4) return null;
   addPenalty(normal, n);
   if (!factorBandedLdl(normal, n, BAND)) return null;
   solveBandedLdl(normal, n, BAND, rhs);
-  const covariance = new Float64Array(n * w4);
+  const covariance = new Float64Array(n * 4);
   bandedInverseInBand(normal, n, BAND, covariance);
-  return { spline, coeffs: rhs, covariance, slit, used };
+  return { spline, coeffs: rhs, covariance, slit, used, dropped };
 }
 
 /** Add PENALTY * mean diagonal * D^T D, D the second-difference operator on the coefficients. */
@@ -122,7 +164,7 @@ function fitSlit(input: SkyFitInput, fit: SkySpline, order: number): void {
   const rows: number[] = [];
   const values: number[] = [];
   const b = new Float64Array(4);
-  for (let y = 0; y < height; y++) {
+  for (let y = 0; y < height; y += 2) {
     let n = 0;
     for (let x = 0; x < width; x++) {
       const i = y * width + x;
@@ -142,40 +184,38 @@ function fitSlit(input: SkyFitInput, fit: SkySpline, order: number): void {
   for (let y = 0; y < height; y++) fit.slit[y] = evalLegendre1D(result.model, y) / mean;
 }
 
-/** Drop used pixels further than clipSigma noise sigmas from the model; returns how many. */
-function clip(input: SkyFitInput, fit: SkySpline, clipSigma: number): number {
-  const { width, height, sci, wave, use } = input;
-  const b = new Float64Array(4);
-  let dropped = 0;
-  for (let y = 0; y < height; y++) {
-    const g = fit.slit[y]!;
-    for (let x = 0; x < width; x++) {
-      const i = y * width + x;
-      if (!use[i]) continue;
-      const r = sci[i]! - g * fit.spline.value(fit.coeffs, wave[i]!, b);
-      if (r * r > clipSigma * clipSigma * input.var[i]!) {
-        use[i] = 0;
-        dropped++;
-      }
-    }
-  }
-  return dropped;
-}
-
-/** Model value and its variance (from the coefficient covariance) at wavelength lambda in row y. */
-export function skyAt(fit: SkySpline, lambda: number, y: number, b: Float64Array): { value: number; variance: number } {
-  const k = fit.spline.weights(lambda, b);
-  const w4 = BAND + 1;
-  let value = 0;
-  let variance = 0;
-  for (let p = 0; p < 4; p++) {
-    value += fit.coeffs[k + p]! * b[p]!;
-    for (let q = 0; q < 4; q++) {
-      const hi = Math.max(k + p, k + q);
-      const lo = Math.min(k + p, k + q);
-      variance += b[p]! * b[q]! * fit.covariance[hi * w4 + (hi - lo)]!;
-    }
-  }
+/**
+ * Model values of the pixels offset..offset+width-1 (row y) into value[0..width), and with
+ * `variance` the model's variance b^T Z b (Z the coefficient covariance in band storage).
+ */
+export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, width: number, y: number, value: Float64Array, variance: Float64Array | null): void {
+  const { start, spacing, nIntervals } = fit.spline;
+  const inv = 1 / spacing;
+  const last = nIntervals - 1;
+  const c = fit.coeffs;
+  const z = fit.covariance;
   const g = fit.slit[y]!;
-  return { value: g * value, variance: g * g * variance };
+  for (let x = 0; x < width; x++) {
+    const t = (wave[offset + x]! - start) * inv;
+    let k = Math.floor(t);
+    if (k < 0) k = 0;
+    else if (k > last) k = last;
+    const u = t - k;
+    const u2 = u * u;
+    const u3 = u2 * u;
+    const r = 1 - u;
+    const b0 = (r * r * r) / 6;
+    const b1 = (3 * u3 - 6 * u2 + 4) / 6;
+    const b2 = (-3 * u3 + 3 * u2 + 3 * u + 1) / 6;
+    const b3 = u3 / 6;
+    value[x] = g * (c[k]! * b0 + c[k + 1]! * b1 + c[k + 2]! * b2 + c[k + 3]! * b3);
+    if (variance) {
+      // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q).
+      const a = k * 4;
+      const v =
+        b0 * b0 * z[a]! + b1 * b1 * z[a + 4]! + b2 * b2 * z[a + 8]! + b3 * b3 * z[a + 12]! +
+        2 * (b1 * b0 * z[a + 5]! + b2 * b1 * z[a + 9]! + b2 * b0 * z[a + 10]! + b3 * b2 * z[a + 13]! + b3 * b1 * z[a + 14]! + b3 * b0 * z[a + 15]!);
+      variance[x] = g * g * v;
+    }
+  }
 }
