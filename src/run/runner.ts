@@ -89,6 +89,7 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
   const outcomes = new Map<string, TargetOutcome>();
   const calibrations = new Map<string, SetupCalibration>();
   const setupMs: Record<string, Record<string, number>> = {};
+  const caching: Promise<void>[] = [];
   for (const setupName of [...new Set(jobs.map((j) => j.setup.name))]) {
     const setup = run.setups[setupName]!;
     const mine = jobs.filter((j) => j.setup.name === setupName);
@@ -96,6 +97,7 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
     const result = calibrateSetupCached(setup, run, setupKeyOf(setup).key, Boolean(opts.force), emit, now);
     if (result.ok) {
       calibrations.set(setupName, result.calibration);
+      if (result.caching) caching.push(result.caching);
       if (result.ms) setupMs[setupName] = result.ms;
       emit({ type: 'setup-done', t: now(), setup: setupName, status: result.ms ? 'ok' : 'cached' });
     } else {
@@ -124,6 +126,8 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
     for (const j of runnable) outcomes.set(j.target.name, executeTargetJob(j, calibrations.get(j.setup.name)!, emit));
   }
 
+  // A cache that could not be written only costs time on the next run.
+  for (const c of await Promise.allSettled(caching)) if (c.status === 'rejected') emit({ type: 'notice', t: now(), message: `calibration cache not written: ${String(c.reason)}` });
   const entries = run.targets.map((t): SummaryEntry => outcomes.get(t.name)?.entry ?? readTargetState<SummaryEntry>(run.outputDir, t.folder)?.entry ?? notRun(t));
   const summary = buildSummary(VERSION, basename(run.manifestPath), entries);
   const seconds = now();

@@ -6,8 +6,7 @@
 import { Header } from '../../fits/header.js';
 import type { WriteHdu } from '../../fits/write-types.js';
 import type { Orientation, Section } from '../frame.js';
-import { toRaw } from '../orientation.js';
-import { maskBitHeader, sectionText } from './spectrum.js';
+import { inRawOrientation, maskBitHeader, sectionText } from './spectrum.js';
 
 /** What the writers need of the CCD stage's calibration (CcdCalibration has these fields). */
 export interface MasterFrames {
@@ -45,7 +44,7 @@ function baseHeader(m: MasterFrames, inputs: readonly string[], history: readonl
 }
 
 function raw<T extends Float32Array | Uint16Array>(m: MasterFrames, data: T) {
-  return toRaw(data, m.width, m.height, m.orientation);
+  return inRawOrientation(data, m.width, m.height, m.orientation);
 }
 
 /** bias.fits: the master bias (ADU) in the primary HDU. */

@@ -7,8 +7,8 @@
 import { basename } from 'node:path';
 import { Header } from '../../fits/header.js';
 import type { WriteHdu } from '../../fits/write-types.js';
-import { MASK_BIT_DESCRIPTIONS, MASK_BITS, type CalibratedFrame } from '../frame.js';
-import { toRaw } from '../orientation.js';
+import { MASK_BIT_DESCRIPTIONS, MASK_BITS, type CalibratedFrame, type Orientation } from '../frame.js';
+import { toRaw, type OrientedImage } from '../orientation.js';
 import type { WavelengthSolution } from '../wavelength.js';
 
 /** Cards copied from the first science header into the primary header, when present. */
@@ -17,6 +17,14 @@ const KEPT_CARDS = ['OBJECT', 'TELESCOP', 'INSTRUME', 'OBSERVER', 'DATE-OBS', 'R
 export interface SpectrumFits {
   primaryHeader: Header;
   hdus: WriteHdu[];
+}
+
+/**
+ * An internal image in the raw orientation for writing: toRaw, or the same array when the
+ * orientation is the identity (the writer only reads it, and a full-size copy costs time).
+ */
+export function inRawOrientation<T extends Float32Array | Float64Array | Uint16Array>(data: T, width: number, height: number, o: Orientation): OrientedImage<T> {
+  return o.transpose || o.flipX ? toRaw(data, width, height, o) : { data, width, height };
 }
 
 /** The header of a MASK extension: one MASKBITn card per bit of MASK_BITS, naming and describing it. */
@@ -55,7 +63,7 @@ export function spectrumFits(frame: CalibratedFrame, solution: WavelengthSolutio
   frame.exposures.forEach((e, i) => primaryHeader.set(`EXPFIL${i + 1}`.slice(0, 8), basename(e.path), 'science exposure'));
   for (const line of history) primaryHeader.history(line);
 
-  const image = <T extends Float32Array | Float64Array | Uint16Array>(data: T) => toRaw(data, frame.width, frame.height, o);
+  const image = <T extends Float32Array | Float64Array | Uint16Array>(data: T) => inRawOrientation(data, frame.width, frame.height, o);
   const sci = image(frame.sci);
   const sciHeader = new Header().set('BUNIT', 'electron', 'detected electrons per pixel in EXPTIME');
   const varHeader = new Header().set('BUNIT', 'electron**2', 'variance of SCI');

@@ -10,6 +10,7 @@
  * are gone are removed: dead ones on this host, and those of other hosts after a day.
  */
 import { closeSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, statSync, writeSync } from 'node:fs';
+import { rename, rm, writeFile } from 'node:fs/promises';
 import { hostname } from 'node:os';
 import { basename, dirname, join } from 'node:path';
 
@@ -19,11 +20,15 @@ const PARTIAL = /^\..+\.partial-([A-Za-z0-9_-]+)-(\d+)-\d+$/;
 const FOREIGN_AGE_MS = 24 * 3600 * 1000;
 let counter = 0;
 
-/** Write `data` to `path` atomically (creating the folder). */
-export function writeFileAtomic(path: string, data: string | Uint8Array): void {
+function temporaryName(path: string): string {
   const dir = dirname(path);
   mkdirSync(dir, { recursive: true });
-  const tmp = join(dir, `.${basename(path)}.partial-${HOST}-${process.pid}-${counter++}`);
+  return join(dir, `.${basename(path)}.partial-${HOST}-${process.pid}-${counter++}`);
+}
+
+/** Write `data` to `path` atomically (creating the folder). */
+export function writeFileAtomic(path: string, data: string | Uint8Array): void {
+  const tmp = temporaryName(path);
   const fd = openSync(tmp, 'w');
   try {
     const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
@@ -36,6 +41,21 @@ export function writeFileAtomic(path: string, data: string | Uint8Array): void {
   }
   closeSync(fd);
   renameSync(tmp, path);
+}
+
+/**
+ * The same, in the background (the copy into the kernel runs off this thread): for large files
+ * that nothing later in the run reads, such as the calibration cache. Await it before exiting.
+ */
+export async function writeFileAtomicInBackground(path: string, data: Uint8Array): Promise<void> {
+  const tmp = temporaryName(path);
+  try {
+    await writeFile(tmp, data);
+    await rename(tmp, path);
+  } catch (e) {
+    await rm(tmp, { force: true });
+    throw e;
+  }
 }
 
 function alive(pid: number): boolean {

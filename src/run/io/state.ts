@@ -6,7 +6,7 @@
  */
 import { existsSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeFileAtomic } from './atomic.js';
+import { writeFileAtomic, writeFileAtomicInBackground } from './atomic.js';
 import { packToBytes, unpackFromBytes } from './pack.js';
 
 export const STATE_DIR = '.whorl';
@@ -65,6 +65,7 @@ export function readCachedCalibration<T>(outputDir: string, folder: string, key:
   }
 }
 
-export function writeCachedCalibration(outputDir: string, folder: string, key: string, value: unknown): void {
-  writeFileAtomic(calibPath(outputDir, folder), packToBytes({ key, value }));
+/** Cache a setup's calibration; written in the background, so await the promise before the run ends. */
+export function writeCachedCalibration(outputDir: string, folder: string, key: string, value: unknown): Promise<void> {
+  return writeFileAtomicInBackground(calibPath(outputDir, folder), packToBytes({ key, value }));
 }

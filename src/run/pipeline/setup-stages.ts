@@ -41,7 +41,14 @@ export interface SetupCalibration {
 }
 
 export type SetupResult =
-  | { ok: true; calibration: SetupCalibration; /** Stage times (ms) when computed now; absent when reused. */ ms?: Record<string, number> }
+  | {
+      ok: true;
+      calibration: SetupCalibration;
+      /** Stage times (ms) when computed now; absent when reused. */
+      ms?: Record<string, number>;
+      /** The cache file being written; await before the run ends. */
+      caching?: Promise<void>;
+    }
   | { ok: false; code: string; reason: string };
 
 /** Reuse the cached calibration of `key` (unless `force`) or compute and cache it; never throws. */
@@ -53,8 +60,7 @@ export function calibrateSetupCached(setup: ResolvedSetup, run: ResolvedRun, key
   const timer = new StageTimer({ setup: setup.name }, SETUP_STAGES.length, emit, now);
   try {
     const calibration = calibrateSetup(setup, run, timer);
-    writeCachedCalibration(run.outputDir, setup.folder, key, calibration);
-    return { ok: true, calibration, ms: timer.ms };
+    return { ok: true, calibration, ms: timer.ms, caching: writeCachedCalibration(run.outputDir, setup.folder, key, calibration) };
   } catch (e) {
     const [code, reason] = describeFailure(e);
     return { ok: false, code, reason };
