@@ -9,7 +9,7 @@ import { CENTROID_FLOOR_PX, fitMatches, matchPeaks, type LineMatches } from './m
 import { chooseOrder1D } from './order-choice.js';
 import type { ArcSettings } from './settings.js';
 
-/** Highest x order tried while identifying when the order is 'auto' (the BIC then picks the final one). */
+/** Highest x order of the identification, whatever the final order (the BIC or the setting picks that). */
 const IDENTIFY_ORDER = 5;
 
 export interface CentralSolution {
@@ -20,20 +20,22 @@ export interface CentralSolution {
 }
 
 export function solveCentralBand(clean: ArcPeak[], width: number, lineSigmaPx: number, arcName: string, lampLines: LampLine[], settings: ArcSettings): CentralSolution {
-  const idOrder = settings.xOrder === 'auto' ? Math.min(IDENTIFY_ORDER, settings.maxXOrder) : settings.xOrder;
-  const id = identifyLines({ peaks: clean, width, lineSigmaPx, arcName }, lampLines, settings, idOrder);
+  const id = identifyLines({ peaks: clean, width, lineSigmaPx, arcName }, lampLines, settings, Math.min(IDENTIFY_ORDER, settings.maxXOrder));
   const wavelengths = Float64Array.from(id.lines, (l) => l.wavelength);
   const first = id.matches;
-  let xOrder = idOrder;
-  if (settings.xOrder === 'auto') {
-    const kept = first.peak.filter((_, i) => first.fit.used[i]);
-    const x = Float64Array.from(kept, (k) => id.peaks[k]!.x);
-    const lam = Float64Array.from(first.line.filter((_, i) => first.fit.used[i]), (j) => wavelengths[j]!);
-    const w = Float64Array.from(kept, (k) => 1 / (Math.hypot(id.peaks[k]!.xErr, CENTROID_FLOOR_PX) * id.guess.dispersion) ** 2);
-    xOrder = chooseOrder1D(x, lam, w, settings.maxXOrder, { min: 0, max: width - 1 }, settings.clipSigma);
-  }
+  const xOrder = settings.xOrder === 'auto' ? chooseOrder(id, wavelengths, width, settings) : settings.xOrder;
   const refit = fitMatches(id.peaks, wavelengths, first, Math.min(xOrder, Math.floor(first.peak.length / 3)), width, id.guess.dispersion, settings.clipSigma);
   const pairs = matchPeaks(id.peaks, wavelengths, refit.fit.model, (width - 1) / 2, width, Math.max(1, 5 * refit.rmsPx));
   const matches = fitMatches(id.peaks, wavelengths, pairs, Math.min(xOrder, Math.floor(pairs.peak.length / 3)), width, id.guess.dispersion, settings.clipSigma);
   return { id, matches, xOrder: matches.fit.model.coeffs.length - 1 };
+}
+
+/** The BIC's x order on the kept matches of the identification (order-choice.ts). */
+function chooseOrder(id: Identification, wavelengths: Float64Array, width: number, settings: ArcSettings): number {
+  const m = id.matches;
+  const kept = m.peak.filter((_, i) => m.fit.used[i]);
+  const x = Float64Array.from(kept, (k) => id.peaks[k]!.x);
+  const lam = Float64Array.from(m.line.filter((_, i) => m.fit.used[i]), (j) => wavelengths[j]!);
+  const w = Float64Array.from(kept, (k) => 1 / (Math.hypot(id.peaks[k]!.xErr, CENTROID_FLOOR_PX) * id.guess.dispersion) ** 2);
+  return chooseOrder1D(x, lam, w, settings.maxXOrder, { min: 0, max: width - 1 }, settings.clipSigma);
 }

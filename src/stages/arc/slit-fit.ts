@@ -23,6 +23,8 @@ export interface SlitFit {
   rmsPx: number;
   /** Laboratory wavelengths of the outermost kept lines, Angstrom. */
   identifiedRange: [number, number];
+  /** chi2 / dof of the kept positions with their centroid errors (plus the floor): near 1 when the model fits. */
+  reducedChi2: number;
   /** Bands with at least one traced position, and distinct lines kept. */
   bandsWithLines: number;
   linesKept: number;
@@ -75,6 +77,7 @@ export function fitAlongSlit(bands: BandSpectra, bandPeaks: ArcPeak[][], central
     rmsAngstrom: Math.sqrt(sumA / fit.nUsed),
     rmsPx: Math.sqrt(sumPx / fit.nUsed),
     identifiedRange: [lo, hi],
+    reducedChi2: fit.reducedChi2,
     bandsWithLines,
     linesKept: kept.size,
   };

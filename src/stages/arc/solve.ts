@@ -20,6 +20,9 @@ import { reportExtrapolation } from './extrapolation.js';
 import { checkArcSettings, type ArcSettings } from './settings.js';
 import { fitAlongSlit } from './slit-fit.js';
 
+/** Residuals beyond three times the centroid errors (chi2/dof above 9) mean the model does not fit (common practice). */
+const MISFIT_CHI2 = 9;
+
 /** The arc's name for messages: the first exposure's path, else FILENAME, else 'arc'. */
 function arcName(arc: CalibratedFrame): string {
   return arc.exposures[0]?.path ?? arc.header.getString('FILENAME') ?? 'arc';
@@ -73,6 +76,9 @@ function solve(arc: CalibratedFrame, lampLines: LampLine[], settings: ArcSetting
   const nBlended = central.filter((p) => !p.saturated && p.blended).length;
   if (nSaturated + nBlended > 0) log.info('rejected-peaks', `central band: ${nSaturated} saturated and ${nBlended} blended peaks left out`, { place: { ...place, row: Math.round(bands.yCentre[centralBand]!) } });
   if (rmsPx > 0.2) log.warn('high-rms', `solution RMS ${rmsPx.toFixed(3)} px is above 0.2 px: check the identification (common practice)`, { place, expected: '<= 0.2 px', actual: `${rmsPx.toFixed(3)} px` });
+  if (slit.reducedChi2 > MISFIT_CHI2) {
+    log.warn('misfit', `the line positions scatter ${Math.sqrt(slit.reducedChi2).toFixed(1)} times their centroid errors about the ${model.xOrder} x ${model.yOrder} solution: the order may be too low for the ${slit.linesKept} lines (at most N/3) or a line is misidentified`, { place, expected: `chi2/dof <= ${MISFIT_CHI2}`, actual: slit.reducedChi2.toFixed(1) });
+  }
   reportExtrapolation(log, model, width, yMid, identifiedRange, name);
   for (let x = 0; x < width - 1; x += 16) {
     if (!(legendre2DStepX(model, x, yMid) > 0)) {

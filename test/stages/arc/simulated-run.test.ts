@@ -22,6 +22,8 @@ describe('solveWavelengths on simulated raw runs', () => {
       const r = solveWavelengths(cal.arc, loadLampLines(['Ne', 'Ar']), { ...DEFAULT_ARC_SETTINGS, approxWavelength: setup.approxWavelength, approxDispersion: setup.approxDispersion });
       const s = r.product;
       expect(s.flipX).toBe(variant === 'rotated');
+      // a clean simulated arc raises no warning (no misfit, high RMS or long extrapolation)
+      expect(r.diagnostics.filter((d) => d.severity !== 'info').map((d) => d.message)).toEqual([]);
       let sum = 0;
       for (let y = 0; y < s.height; y++) {
         for (let x = 0; x < s.width; x++) {

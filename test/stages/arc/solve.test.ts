@@ -105,6 +105,16 @@ describe('solveWavelengths on simulated arcs', () => {
     expect(r.diagnostics.find((x) => x.rule === 'arc.solution')!.message).toMatch(/RMS .* A = .* px = .* km\/s/);
   });
 
+  it('warns of a misfit when the order is set too low for a cubic dispersion (residuals far above the centroid errors)', () => {
+    const arc = syntheticArc({ seed: 11 });
+    const r = solveWavelengths(arc.frame, arc.lampLines, settingsFor(arc, { xOrder: 1 }));
+    const d = r.diagnostics.find((x) => x.rule === 'arc.misfit');
+    expect(d?.severity).toBe('warning');
+    expect(Number(d!.actual)).toBeGreaterThan(9);
+    const clean = solveWavelengths(arc.frame, arc.lampLines, settingsFor(arc));
+    expect(clean.diagnostics.some((x) => x.rule === 'arc.misfit')).toBe(false);
+  });
+
   it('fills wave for every pixel centre and keeps it equal to the model', () => {
     const arc = syntheticArc({ seed: 10 });
     const s = solveWavelengths(arc.frame, arc.lampLines, settingsFor(arc)).product;
