@@ -47,7 +47,7 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
   const threshold = settings.crSigma;
   const startRank = Math.max(0, Math.floor((nExp - 1) / 2) - 1);
   const all = (1 << nExp) - 1;
-  const rejectBits = new Uint32Array(n);
+  const rejectBits: BitPlanes = nExp <= 8 ? new Uint8Array(n) : nExp <= 16 ? new Uint16Array(n) : new Uint32Array(n);
   const scis = exposures.map((e) => e.sci);
   const t = Float64Array.from(exptimesS);
   const rates = new Float64Array(nExp);
@@ -199,8 +199,11 @@ function popcount(v: number): number {
   return c;
 }
 
+/** One bit per exposure and pixel, in the narrowest array that holds them. */
+type BitPlanes = Uint8Array | Uint16Array | Uint32Array;
+
 /** OR of the bits within `radius` (square window): rejections spread to neighbours in their exposure. */
-function grow(bits: Uint32Array, width: number, height: number, radius: number): Uint32Array {
+function grow(bits: BitPlanes, width: number, height: number, radius: number): BitPlanes {
   const out = bits.slice();
   for (let y = 0; y < height; y++) {
     for (let x = 0; x < width; x++) {
