@@ -161,9 +161,15 @@ export function levenbergMarquardt(
       const chi2Trial = chiSquare(y, ft, weights);
       if (chi2Trial <= chi2) {
         const relative = chi2 > 0 ? (chi2 - chi2Trial) / chi2 : 0;
-        [p, t] = [t, p];
-        [f, ft] = [ft, f];
-        [jac, jt] = [jt, jac];
+        const tp = p;
+        p = t;
+        t = tp;
+        const tf = f;
+        f = ft;
+        ft = tf;
+        const tj = jac;
+        jac = jt;
+        jt = tj;
         chi2 = chi2Trial;
         normalEquations(jac, y, f, weights, m, n, a, g);
         lambda = Math.max(lambda / 10, MIN_DAMPING);

@@ -3,6 +3,7 @@
  * start from the current velocity and width, fit, and keep the window for a width-held refit
  * and for the report.
  */
+import { median } from '../../kernels/robust.js';
 import { GALAXY_LINES } from '../../physics/catalogues.js';
 import { SPEED_OF_LIGHT_KMS as C } from '../../physics/constants.js';
 import type { BinSpectrum } from './bin-spectrum.js';
@@ -51,7 +52,7 @@ function fitOneGroup(bin: BinSpectrum, spec: GroupSpec, state: VelocityState, se
   const half = settings.windowSigmas * sigma + tolerance;
   const lo = Math.min(...centres) - half;
   const hi = Math.max(...centres) + half;
-  if (lo < bin.wave[0]! || hi > bin.wave[bin.wave.length - 1]!) return null;
+  if (lo < bin.wave[bin.x0]! || hi > bin.wave[bin.x1 - 1]!) return null;
   const x0 = lowerIndex(bin.wave, lo);
   const x1 = lowerIndex(bin.wave, hi);
   const m = x1 - x0;
@@ -83,8 +84,7 @@ function fitOneGroup(bin: BinSpectrum, spec: GroupSpec, state: VelocityState, se
   spec.members.forEach((_, k) => {
     if (spec.fluxFactor[k] === 1) fluxes[spec.fluxIndex[k]!] = Math.max(0, quickFlux(view, centres[k]!, sigma).flux);
   });
-  const sorted = Float64Array.from(win.data).sort();
-  const c0 = sorted[Math.floor(m / 2)]!;
+  const c0 = median(win.data);
   const maxSigma = Math.hypot(instRef, (settings.maxDispersionKms / C) * centre);
   const centreRange: [number, number] = [centre - tolerance, centre + tolerance];
   const sigmaRange: [number, number] = [0.5 * instRef, maxSigma];

@@ -4,13 +4,17 @@
  * row's line flux. For one row this is the row itself on its native pixels; for several it equals
  * a joint fit to their native pixels to first order in the line tilt across the bin (the sum of
  * slightly shifted Gaussians is centred on the weighted mean shift). Nothing is interpolated.
- * A column with a masked pixel in any row of the bin is excluded.
+ * A column with a masked pixel in any row of the bin is excluded. Only the columns [x0, x1) set at
+ * reset are summed (the span of the fitted lines), so a bin costs its lines' width, not the frame's.
  */
 import type { CalibratedFrame } from '../../products/frame.js';
 
 export class BinSpectrum {
   rowStart = 0;
   rowEnd = -1;
+  /** Summed columns, [x0, x1). */
+  x0 = 0;
+  x1 = 0;
   /** Weighted centre row. */
   yCentre = NaN;
   readonly wave: Float64Array;
@@ -36,17 +40,25 @@ export class BinSpectrum {
     this.var = new Float64Array(w);
     this.bad = new Uint8Array(w);
     this.waveSum = new Float64Array(w);
+    // Outside the summed columns the central row's wavelengths keep `wave` increasing for searches.
+    const mid = Math.floor(frame.height / 2) * w;
+    this.wave.set(frameWave.subarray(mid, mid + w));
+    this.x1 = w;
   }
 
   get nRows(): number {
     return this.rows;
   }
 
-  reset(): void {
-    this.sci.fill(0);
-    this.var.fill(0);
-    this.bad.fill(0);
-    this.waveSum.fill(0);
+  /** Empty the bin and sum columns [x0, x1) from now on (default: all). */
+  reset(x0 = 0, x1 = this.frame.width): void {
+    this.x0 = Math.max(0, x0);
+    this.x1 = Math.min(this.frame.width, x1);
+    this.sci.fill(0, this.x0, this.x1);
+    this.var.fill(0, this.x0, this.x1);
+    this.bad.fill(1);
+    this.bad.fill(0, this.x0, this.x1);
+    this.waveSum.fill(0, this.x0, this.x1);
     this.weightSum = 0;
     this.rowSum = 0;
     this.rows = 0;
@@ -58,7 +70,7 @@ export class BinSpectrum {
   addRow(y: number, weight: number): void {
     const { width, sci, var: variance, mask } = this.frame;
     const row = y * width;
-    for (let x = 0; x < width; x++) {
+    for (let x = this.x0; x < this.x1; x++) {
       const i = row + x;
       const v = variance[i]!;
       if ((mask[i]! & this.badBits) !== 0 || !(v > 0) || !Number.isFinite(sci[i]!)) this.bad[x] = 1;
@@ -82,12 +94,12 @@ export class BinSpectrum {
   }
 
   private finish(): void {
-    const w = this.frame.width;
-    for (let x = 0; x < w; x++) this.wave[x] = this.waveSum[x]! / this.weightSum;
-    for (let x = 0; x < w; x++) {
-      const lo = this.wave[Math.max(0, x - 1)]!;
-      const hi = this.wave[Math.min(w - 1, x + 1)]!;
-      this.pixelWidth[x] = (hi - lo) / (x === 0 || x === w - 1 ? 1 : 2);
+    const { x0, x1 } = this;
+    for (let x = x0; x < x1; x++) this.wave[x] = this.waveSum[x]! / this.weightSum;
+    for (let x = x0; x < x1; x++) {
+      const lo = this.wave[Math.max(x0, x - 1)]!;
+      const hi = this.wave[Math.min(x1 - 1, x + 1)]!;
+      this.pixelWidth[x] = (hi - lo) / (x === x0 || x === x1 - 1 ? 1 : 2);
     }
     this.yCentre = this.rowSum / this.weightSum;
   }

@@ -19,6 +19,7 @@ import { BinSpectrum } from './bin-spectrum.js';
 import { continuumProfile } from './continuum.js';
 import { groupSpecs } from './group-spec.js';
 import { toBinFit, toMeasurements } from './measurements.js';
+import { lowerIndex } from './quick-flux.js';
 import { guessVelocity } from './redshift-guess.js';
 import type { LineSettings } from './settings.js';
 import { binRows, type BinRecord, type WalkContext } from './walk.js';
@@ -64,7 +65,21 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   }
   const start: VelocityState = { vKms: vStart, sigmaKms: (C * Math.hypot(instCentre, (START_DISPERSION_KMS / C) * binRest)) / binRest };
 
-  const ctx: WalkContext = { frame, wave, badBits: BAD, settings, binRest, instrumental, fit: (bin, state) => fitBinGroups(bin, specs, state, settings, instrumental), binGroup, binMember };
+  const restMin = Math.min(...specs.flatMap((g) => g.rest));
+  const restMax = Math.max(...specs.flatMap((g) => g.rest));
+  const midRow = wave.subarray(Math.floor(height / 2) * width, (Math.floor(height / 2) + 1) * width);
+  const columns = (state: VelocityState): [number, number] => {
+    // Every window: the velocity tolerance twice (the next bin may move), windowSigmas and the
+    // quick-flux sidebands (8 sigma) of a width up to 1.5 times the current one beyond the outer lines,
+    // and 10% for the tilt of the lines.
+    const z = 1 + state.vKms / C;
+    const margin = (2 * settings.velocityToleranceKms + (settings.windowSigmas + 8) * 1.5 * state.sigmaKms) / C;
+    const a = lowerIndex(midRow, restMin * z * (1 - margin));
+    const b = lowerIndex(midRow, restMax * z * (1 + margin));
+    const slack = Math.ceil(0.1 * (b - a)) + 10;
+    return [a - slack, b + slack];
+  };
+  const ctx: WalkContext = { frame, wave, badBits: BAD, settings, binRest, instrumental, fit: (bin, state) => fitBinGroups(bin, specs, state, settings, instrumental), binGroup, binMember, columns };
   const records = binRows(ctx, centreRow, start);
   if (records.length === 0) throw new StageError('lines', 'no-emission', `${binName} never reached S/N 3 in any bin around row ${centreRow}`);
 
@@ -101,7 +116,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   const zSys = 1 + vStart / C;
   const exclude = specs.flatMap((s) => s.rest.map((r): [number, number] => [r * zSys * (1 - 1000 / C), r * zSys * (1 + 1000 / C)]));
   return {
-    product: { bins, measurements, fits, continuumProfile: continuumProfile(frame, wave, exclude, BAD), sky },
+    product: { bins, measurements, fits, continuumProfile: continuumProfile(frame, wave, exclude, BAD, 2), sky },
     diagnostics: log.items,
   };
 }

@@ -27,6 +27,8 @@ export interface WalkContext {
   binMember: number;
   instrumental: InstrumentalSigma;
   fit: (bin: BinSpectrum, state: VelocityState) => (GroupWindow | null)[];
+  /** Columns [x0, x1) that hold every fitted line's window at this velocity. */
+  columns: (state: VelocityState) => [number, number];
 }
 
 export interface BinRecord {
@@ -100,7 +102,8 @@ function* sideOrder(y: number, step: number, height: number): Generator<number> 
 function grow(ctx: WalkContext, bin: BinSpectrum, row: BinSpectrum, usable: Uint8Array, rows: Iterable<number>, state: VelocityState): BinRecord | null {
   const { settings } = ctx;
   const centre = ctx.binRest * (1 + state.vKms / C);
-  bin.reset();
+  const [x0, x1] = ctx.columns(state);
+  bin.reset(x0, x1);
   let snr = 0;
   let sigma = NaN;
   for (const y of rows) {
@@ -108,7 +111,7 @@ function grow(ctx: WalkContext, bin: BinSpectrum, row: BinSpectrum, usable: Uint
       if (bin.nRows === 0) continue;
       break;
     }
-    row.reset();
+    row.reset(x0, x1);
     row.addRow(y, 1);
     if (sigma !== sigma) sigma = Math.max((state.sigmaKms / C) * centre, ctx.instrumental(row.columnOf(centre), y));
     const one = quickFlux(row, centre, sigma);
