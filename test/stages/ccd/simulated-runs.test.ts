@@ -9,6 +9,7 @@ import { expectedSum, grownSet, hitPixels, lineCorePixels } from './truth-pixels
 import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
 import { DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
 import { MASK_BITS, type CalibratedFrame } from '../../../src/products/frame.js';
+import { flipFrameX } from '../../../src/products/orientation.js';
 import type { CcdCalibration } from '../../../src/stages/ccd/calibration.js';
 import type { SimulatedRun } from '../../../src/sim/index.js';
 
@@ -108,3 +109,27 @@ for (const variant of ['standard', 'rotated'] as const) {
     });
   });
 }
+
+describe('standard and rotated runs of the same night', () => {
+  it('give the same calibrated spectrum within the noise once the rotated frame takes the direction the truth gives', () => {
+    const a = calibratedRun('standard');
+    const b = calibratedRun('rotated');
+    const fa = calibrateScience(a.byKind('science'), a.cal, DEFAULT_CCD_SETTINGS).product;
+    const rotated = calibrateScience(b.byKind('science'), b.cal, DEFAULT_CCD_SETTINGS).product;
+    const flipX = Object.values(b.run.truth.setups)[0]!.orientation.flipX;
+    const fb = flipX ? flipFrameX(rotated) : rotated;
+    let s1 = 0;
+    let s2 = 0;
+    let k = 0;
+    for (let i = 0; i < fa.sci.length; i++) {
+      if (fa.mask[i] || fb.mask[i]) continue;
+      const z = (fa.sci[i]! - fb.sci[i]!) / Math.sqrt(fa.var[i]! + fb.var[i]!);
+      s1 += z;
+      s2 += z * z;
+      k++;
+    }
+    const mean = s1 / k;
+    expect(Math.abs(mean)).toBeLessThan(0.02);
+    expect(Math.abs(Math.sqrt(s2 / k - mean * mean) - 1)).toBeLessThan(0.05);
+  });
+});
