@@ -7,6 +7,7 @@ import { evalLegendre1D, legendre1DStep, type Legendre1D } from '../../kernels/l
 import { fitLegendre1D, type LegendreFitResult } from '../../kernels/legendre-fit.js';
 import type { LampLine } from '../../physics/catalogues.js';
 import type { LinearGuess } from './first-guess.js';
+import { pruneToErrors } from './prune.js';
 
 /** A peak of the oriented frame (wavelength increasing with x) offered to the matching. */
 export interface MatchPeak {
@@ -60,7 +61,7 @@ export function matchPeaks(peaks: MatchPeak[], wavelengths: Float64Array, model:
   return { peak: pairs.map((p) => p.peak), line: pairs.map((p) => p.line) };
 }
 
-/** Fit lambda(x) to matched pairs with weights from the centroid errors (plus the floor). */
+/** Fit lambda(x) to matched pairs with weights from the centroid errors (plus the floor), clipped and pruned. */
 export function fitMatches(peaks: MatchPeak[], wavelengths: Float64Array, pairs: { peak: number[]; line: number[] }, order: number, width: number, dispersion: number, clipSigma: number): LineMatches {
   const n = pairs.peak.length;
   const x = new Float64Array(n);
@@ -73,7 +74,7 @@ export function fitMatches(peaks: MatchPeak[], wavelengths: Float64Array, pairs:
     const e = (Number.isFinite(p.xErr) ? Math.hypot(p.xErr, CENTROID_FLOOR_PX) : 1) * dispersion;
     w[i] = 1 / (e * e);
   }
-  const fit = fitLegendre1D(x, y, w, order, { min: 0, max: width - 1 }, { clipSigma, robust: true });
+  const fit = pruneToErrors(x, y, w, fitLegendre1D(x, y, w, order, { min: 0, max: width - 1 }, { clipSigma, robust: true }));
   let sum = 0;
   for (let i = 0; i < n; i++) {
     if (!fit.used[i]) continue;

@@ -72,3 +72,27 @@ describe('arc identification failures', () => {
     expect(() => solveWavelengths(arc.frame, arc.lampLines, settingsFor(arc, { approxDispersion: -1 }))).toThrow(/approxDispersion/);
   });
 });
+
+describe('arc identification under everything at once (seeded stress)', () => {
+  it('12 arcs with 20% of the lines missing, 10 spurious peaks, dispersion +-10% and centre +-50 A: at least 10 right, and never a silent wrong answer', () => {
+    let right = 0;
+    for (let seed = 100; seed < 112; seed++) {
+      const flip = seed % 4 < 2;
+      const arc = syntheticArc({ seed, setup: seed % 2, flip, dropFraction: 0.2, spurious: 10, electronsPer1000: seed % 3 === 0 ? 300 : 20000 });
+      const scale = trueScale(arc);
+      const settings = settingsFor(arc, { approxDispersion: scale.dispersion * (seed % 2 === 0 ? 1.1 : 0.9), approxWavelength: scale.centre + (seed % 3 === 1 ? 50 : -50) });
+      let r;
+      try {
+        r = solveWavelengths(arc.frame, arc.lampLines, settings);
+      } catch (e) {
+        expect(e).toBeInstanceOf(StageError); // a refusal is an acceptable answer
+        continue;
+      }
+      const s = r.product;
+      const correct = s.flipX === flip && pixelRmsError(arc, s) < 0.05 && s.lines.every((l) => !l.used || Math.abs(l.x - pixelOfWavelength(arc.setup, l.wavelength, l.y)) < 0.3);
+      if (correct) right++;
+      else expect(r.diagnostics.some((d) => d.severity === 'warning')).toBe(true);
+    }
+    expect(right).toBeGreaterThanOrEqual(10);
+  });
+});
