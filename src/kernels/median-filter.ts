@@ -11,7 +11,7 @@
 import { selectInPlace } from './robust.js';
 
 /** Index of coordinate i (may be outside [0, n)) under the mirror rule. */
-export function reflect(i: number, n: number): number {
+export function reflectIndex(i: number, n: number): number {
   if (n === 1) return 0;
   const period = 2 * n;
   let k = i % period;
@@ -21,7 +21,7 @@ export function reflect(i: number, n: number): number {
 
 function reflectMap(n: number, r: number): Int32Array {
   const map = new Int32Array(n + 2 * r);
-  for (let i = -r; i < n + r; i++) map[i + r] = reflect(i, n);
+  for (let i = -r; i < n + r; i++) map[i + r] = reflectIndex(i, n);
   return map;
 }
 
@@ -120,8 +120,8 @@ function histogramMedian(src: Float32Array, width: number, height: number, radiu
 export function medianAt(src: Float32Array, width: number, height: number, x: number, y: number, radius: number, scratch: Float32Array): number {
   let k = 0;
   for (let dy = -radius; dy <= radius; dy++) {
-    const row = reflect(y + dy, height) * width;
-    for (let dx = -radius; dx <= radius; dx++) scratch[k++] = src[row + reflect(x + dx, width)]!;
+    const row = reflectIndex(y + dy, height) * width;
+    for (let dx = -radius; dx <= radius; dx++) scratch[k++] = src[row + reflectIndex(x + dx, width)]!;
   }
   return selectInPlace(scratch, k, k >> 1);
 }
@@ -133,9 +133,9 @@ function median3x3(src: Float32Array, width: number, height: number, dst: Float3
   const mid = new Float32Array(width + 2);
   const hi = new Float32Array(width + 2);
   for (let y = 0; y < height; y++) {
-    const r0 = reflect(y - 1, height) * width;
+    const r0 = reflectIndex(y - 1, height) * width;
     const r1 = y * width;
-    const r2 = reflect(y + 1, height) * width;
+    const r2 = reflectIndex(y + 1, height) * width;
     for (let c = 0; c < width + 2; c++) {
       const x = xs[c]!;
       let a = src[r0 + x]!;

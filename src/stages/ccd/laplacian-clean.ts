@@ -10,7 +10,7 @@
  * image. N, M5(S), M3 and M7 are only evaluated where a test needs them.
  */
 import { positiveLaplacian, positiveLaplacianAt } from '../../kernels/laplacian.js';
-import { medianAt, reflect } from '../../kernels/median-filter.js';
+import { medianAt, reflectIndex } from '../../kernels/median-filter.js';
 import { medianOfBuffer, selectInPlace } from '../../kernels/robust.js';
 import type { LaplacianSettings } from './settings.js';
 
@@ -60,7 +60,7 @@ export function laplacianClean(
   };
   const lap = positiveLaplacian(image, width, height);
   const sAt = (x: number, y: number): number => {
-    const q = reflect(y, height) * width + reflect(x, width);
+    const q = reflectIndex(y, height) * width + reflectIndex(x, width);
     return lap[q]! / (2 * noiseAt(q));
   };
   const window = new Float32Array(25);
@@ -73,7 +73,7 @@ export function laplacianClean(
   /** F = M3(I) - M7(M3(I)). */
   const fine = (x: number, y: number): number => {
     let k = 0;
-    for (let dy = -3; dy <= 3; dy++) for (let dx = -3; dx <= 3; dx++) m3[k++] = medianAt(image, width, height, reflect(x + dx, width), reflect(y + dy, height), 1, window);
+    for (let dy = -3; dy <= 3; dy++) for (let dx = -3; dx <= 3; dx++) m3[k++] = medianAt(image, width, height, reflectIndex(x + dx, width), reflectIndex(y + dy, height), 1, window);
     return medianAt(image, width, height, x, y, 1, window) - selectInPlace(m3, 49, 24);
   };
   const hits = new Uint8Array(n);
