@@ -1,8 +1,9 @@
 /**
  * Several exposures of one target combined pixel by pixel, with cosmic rays rejected against the
  * noise model rather than the scatter of a few values:
- *   1. reference rate = a low order statistic of the rates v_i / t_i (the minimum for up to four
- *      exposures), so that a pixel hit in two of three exposures still starts from a clean value;
+ *   0. a pixel whose exposures each pass step 2 against all the others keeps them all (most pixels);
+ *   1. otherwise the reference rate starts from a low order statistic of the rates v_i / t_i (the
+ *      minimum for up to four exposures), so a pixel hit in two of three exposures starts clean;
  *   2. exposure i is kept when v_i - r_i t_i <= crSigma sigma_i, r_i the rate of the other kept
  *      exposures (leave-one-out; the starting exposures in the first round), with
  *      sigma_i^2 = s^2(r_i t_i) + t_i^2 sum_j s^2(r_i t_j) / (sum_j t_j)^2 (the reference's own
