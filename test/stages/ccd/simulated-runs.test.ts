@@ -8,6 +8,7 @@ import { calibratedRun } from './sim-run.js';
 import { expectedSum, grownSet, hitPixels, lineCorePixels } from './truth-pixels.js';
 import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
 import { DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
+import { normaliseFlat } from '../../../src/stages/ccd/flat.js';
 import { MASK_BITS, type CalibratedFrame } from '../../../src/products/frame.js';
 import { flipFrameX } from '../../../src/products/orientation.js';
 import type { CcdCalibration } from '../../../src/stages/ccd/calibration.js';
@@ -67,6 +68,31 @@ for (const variant of ['standard', 'rotated'] as const) {
     it('finds the dispersion axis from the arc (simulator truth: transpose for rotated)', () => {
       expect(r.cal.orientation).toEqual({ transpose: setup.orientation.transpose, flipX: false });
       expect([r.cal.width, r.cal.height]).toEqual([setup.internalWidth, setup.internalHeight]);
+    });
+
+    it("leaves in the flat the simulator's pixel-to-pixel sensitivity (rms 1%) and its own counting noise, nothing else", () => {
+      let s1 = 0;
+      let s2 = 0;
+      let sv = 0;
+      let k = 0;
+      for (let i = 0; i < r.cal.masterFlat.length; i++) {
+        if (r.cal.flatMask[i]) continue;
+        const f = r.cal.masterFlat[i]!;
+        s1 += f;
+        s2 += f * f;
+        sv += r.cal.flatVariance[i]!;
+        k++;
+      }
+      const mean = s1 / k;
+      expect(mean).toBeCloseTo(1, 4);
+      expect(Math.sqrt(s2 / k - mean * mean) / Math.sqrt(setup.detector.pixelSensitivityRms ** 2 + sv / k)).toBeCloseTo(1, 1);
+      // Honest flat variance: the same normalisation of the noiseless flats gives the truth to compare with.
+      const flats = r.run.frames.filter((f) => f.kind === 'flat').map((f) => f.name);
+      const truthFlat = normaliseFlat(expectedSum(r.run, flats, r.cal), r.cal.width, r.cal.height, r.cal.flatMask.map((m) => m & MASK_BITS.badColumn), { gain: 1, readNoiseE: 0, biasVarianceAdu: 0, count: 1 }, DEFAULT_CCD_SETTINGS).flat;
+      let z2 = 0;
+      for (let i = 0; i < truthFlat.length; i++) if (!r.cal.flatMask[i]) z2 += (r.cal.masterFlat[i]! - truthFlat[i]!) ** 2 / r.cal.flatVariance[i]!;
+      expect(Math.sqrt(z2 / k)).toBeGreaterThan(0.95);
+      expect(Math.sqrt(z2 / k)).toBeLessThan(1.05);
     });
 
     it('finds exactly the injected hot columns (trimmed raw x)', () => {
