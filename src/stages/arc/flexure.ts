@@ -14,7 +14,7 @@ import type { SkyLine } from '../../physics/catalogues.js';
 import type { CalibratedFrame, StageResult } from '../../products/frame.js';
 import type { FlexureMeasurement, WavelengthSolution } from '../../products/wavelength.js';
 import type { FlexureSettings } from './settings.js';
-import { skyRowMask } from './sky-rows.js';
+import { givenSkyRows, skyRowMask } from './sky-rows.js';
 
 /** Sky lines closer than this many LSF sigmas to a neighbour above a tenth of their intensity are blends (common practice). */
 const BLEND_SIGMAS = 4;
@@ -97,7 +97,7 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
     if (l.wavelength < lo || l.wavelength > hi) return false;
     return ![sorted[i - 1], sorted[i + 1]].some((m) => m && Math.abs(m.wavelength - l.wavelength) < BLEND_SIGMAS * sigmaA && m.intensity > 0.1 * l.intensity);
   });
-  const sky = skyRowMask(science, settings.galaxyRowSigma);
+  const sky = settings.skyRows ? givenSkyRows(settings.skyRows, height) : skyRowMask(science, settings.galaxyRowSigma);
   const nSky = sky.reduce((a, b) => a + b, 0);
   const lines: FlexureMeasurement['lines'] = [];
   for (const line of candidates) {

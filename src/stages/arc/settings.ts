@@ -67,6 +67,8 @@ export interface FlexureSettings {
   searchAngstrom: number;
   /** Rows whose continuum exceeds the sky level by this many sigma are the galaxy's and are left out. Default 5. */
   galaxyRowSigma: number;
+  /** Sky rows given by the user (internal 0-based rows, inclusive ranges): used instead of the row test. */
+  skyRows?: [number, number][];
 }
 
 export const DEFAULT_FLEXURE_SETTINGS: FlexureSettings = Object.freeze({ minSnr: 5, searchAngstrom: 4, galaxyRowSigma: 5 });

@@ -39,3 +39,10 @@ export function skyRowMask(frame: CalibratedFrame, galaxyRowSigma: number): Uint
   }
   return sky;
 }
+
+/** 1 for the rows inside the given inclusive ranges (clipped to the frame). */
+export function givenSkyRows(ranges: [number, number][], height: number): Uint8Array {
+  const sky = new Uint8Array(height);
+  for (const [a, b] of ranges) for (let y = Math.max(0, Math.min(a, b)); y <= Math.min(height - 1, Math.max(a, b)); y++) sky[y] = 1;
+  return sky;
+}

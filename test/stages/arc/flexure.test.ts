@@ -49,6 +49,16 @@ describe('measureFlexure', () => {
     expect(Math.abs(f.shiftAngstrom - -0.2)).toBeLessThan(4 * f.shiftErrAngstrom);
   });
 
+  it('uses the sky rows the user gives instead of the row test', () => {
+    // the galaxy fills rows 60-240, with an emission line 1 A from OH 6863.955: given rows 0-40 avoid it
+    const galaxy = { rows: [60, 240] as [number, number], continuum: 5, line: { wavelength: 6863.955 + 1.0, electrons: 20000 } };
+    const sci = syntheticSky(arc.setup, { seed: 44, shiftAngstrom: 0.25, galaxy });
+    const f = measureFlexure(sci, solution, skyLines(), { ...DEFAULT_FLEXURE_SETTINGS, skyRows: [[0, 40], [260, 299]] }).product.flexure!;
+    expect(Math.abs(f.shiftAngstrom - -0.25)).toBeLessThan(4 * f.shiftErrAngstrom);
+    const r = measureFlexure(sci, solution, skyLines(), { ...DEFAULT_FLEXURE_SETTINGS, skyRows: [[0, 40]] });
+    expect(r.diagnostics.find((d) => d.rule === 'arc.flexure')!.message).toMatch(/in 41 sky rows/);
+  });
+
   it('warns and scales the error when the sky lines disagree beyond their errors', () => {
     const sci = syntheticSky(arc.setup, { seed: 42, shiftAngstrom: 0.1, lineShifts: { OH6864: 0.8, OH6923: -0.6 } });
     const r = measureFlexure(sci, solution, skyLines(), DEFAULT_FLEXURE_SETTINGS);
