@@ -16,7 +16,7 @@ import { calibrateExposure, type ExposureCalibration } from './exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { combineFlats, normaliseFlat } from './flat.js';
 import { trimFrame } from './overscan.js';
-import type { CcdSettings } from './settings.js';
+import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 export interface CalibrationFrames {
   bias: RawFrame[];
@@ -26,6 +26,7 @@ export interface CalibrationFrames {
 
 export function buildCalibration(frames: CalibrationFrames, settings: CcdSettings): StageResult<CcdCalibration> {
   const log = new DiagnosticLog('ccd');
+  checkCcdSettings(settings);
   if (frames.arc.length === 0) throw new InputError('ccd.no-arc', 'no arc frames: the orientation and the wavelength solution need at least one', { key: 'arc' }, { expected: 'one or more arc frames' });
   const all = [...frames.bias, ...frames.flat, ...frames.arc];
   const first = all[0]!;

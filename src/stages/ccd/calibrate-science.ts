@@ -14,13 +14,14 @@ import { calibrateExposure, type ExposureCalibration } from './exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { laplacianClean } from './laplacian-clean.js';
 import { trimFrame } from './overscan.js';
-import type { CcdSettings } from './settings.js';
+import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 /** Mask bits that keep a pixel out of the Laplacian detection and of the replacement medians. */
 const UNUSABLE = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
 
 export function calibrateScience(science: RawFrame[], cal: CcdCalibration, settings: CcdSettings): StageResult<CalibratedFrame> {
   const log = new DiagnosticLog('ccd');
+  checkCcdSettings(settings);
   if (science.length === 0) throw new InputError('ccd.no-science', 'no science frames', { key: 'frames' }, { expected: 'one or more science exposures' });
   if (science.length > MAX_EXPOSURES) throw new InputError('ccd.too-many-exposures', `${science.length} exposures in one target`, { key: 'frames' }, { expected: `at most ${MAX_EXPOSURES}` });
   // The calibration's gain and read noise hold for the science too (same detector and readout).

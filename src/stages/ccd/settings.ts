@@ -2,6 +2,7 @@
  * Settings of the CCD stage. Every field has its unit and default; header keywords fill what the
  * settings leave out (gain, read noise, sections, saturation), and a value set here wins.
  */
+import { InputError } from '../../errors.js';
 
 /** Van Dokkum (2001, PASP 113, 1420) Laplacian cosmic-ray detection on a single exposure. */
 export interface LaplacianSettings {
@@ -86,3 +87,26 @@ export const DEFAULT_CCD_SETTINGS: CcdSettings = Object.freeze({
   cleanSingleExposure: true,
   laplacian: DEFAULT_LAPLACIAN_SETTINGS,
 }) as CcdSettings;
+
+/** Throws InputError (key = the setting's name) for a value outside its range. */
+export function checkCcdSettings(s: CcdSettings): void {
+  const bad = (key: string, expected: string, actual: unknown): never => {
+    throw new InputError('ccd.invalid-setting', `invalid CCD setting ${key}`, { key }, { expected, actual: String(actual) });
+  };
+  if (!['auto', 'x', 'y'].includes(s.dispersionAxis)) bad('dispersionAxis', "'auto', 'x' or 'y'", s.dispersionAxis);
+  if (s.saturationAdu !== undefined && !(s.saturationAdu > 0)) bad('saturationAdu', 'ADU > 0', s.saturationAdu);
+  const integers: [keyof CcdSettings, number, number][] = [['overscanOrder', 0, 20], ['combineIterations', 1, 100], ['flatOrder', 0, 30], ['crGrow', 0, 5]];
+  for (const [key, lo, hi] of integers) {
+    const v = s[key] as number;
+    if (!(Number.isInteger(v) && v >= lo && v <= hi)) bad(key, `an integer in [${lo}, ${hi}]`, v);
+  }
+  const positives: (keyof CcdSettings)[] = ['combineSigma', 'crSigma', 'badColumnSigma'];
+  for (const key of positives) if (!((s[key] as number) > 0)) bad(key, '> 0', s[key]);
+  const fractions: (keyof CcdSettings)[] = ['flatMinimum', 'illuminationMinimum', 'crRelativeScatter'];
+  for (const key of fractions) if (!((s[key] as number) >= 0 && (s[key] as number) < 1)) bad(key, 'in [0, 1)', s[key]);
+  const l = s.laplacian;
+  if (!(l.sigmaLim > 0)) bad('laplacian.sigmaLim', '> 0', l.sigmaLim);
+  if (!(l.sigmaFrac > 0 && l.sigmaFrac <= 1)) bad('laplacian.sigmaFrac', 'in (0, 1]', l.sigmaFrac);
+  if (!(l.fLim > 0)) bad('laplacian.fLim', '> 0', l.fLim);
+  if (!(Number.isInteger(l.iterations) && l.iterations >= 1 && l.iterations <= 20)) bad('laplacian.iterations', 'an integer in [1, 20]', l.iterations);
+}

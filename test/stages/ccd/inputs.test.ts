@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { buildCalibration } from '../../../src/stages/ccd/build-calibration.js';
 import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
-import { DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
+import { checkCcdSettings, DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
 import { formatSection, parseSection } from '../../../src/stages/ccd/section.js';
 import { InputError } from '../../../src/errors.js';
 import { arcSignal, flatSignal, syntheticFrame, type SyntheticOptions } from './synthetic.js';
@@ -81,5 +81,17 @@ describe('calibration inputs', () => {
     const e = caught(() => calibrateScience([frame], cal, DEFAULT_CCD_SETTINGS));
     expect(e.code).toBe('ccd.exptime-invalid');
     expect(e.place).toMatchObject({ file: 'raw/s3.fits', key: 'EXPTIME' });
+  });
+});
+
+describe('settings', () => {
+  it('a setting out of its range is an InputError naming it', () => {
+    const frames = calibrationFrames();
+    const e = caught(() => buildCalibration(frames, { ...DEFAULT_CCD_SETTINGS, flatOrder: -1 }));
+    expect(e.code).toBe('ccd.invalid-setting');
+    expect(e.place.key).toBe('flatOrder');
+    const l = caught(() => buildCalibration(frames, { ...DEFAULT_CCD_SETTINGS, laplacian: { ...DEFAULT_CCD_SETTINGS.laplacian, sigmaFrac: 2 } }));
+    expect(l.place.key).toBe('laplacian.sigmaFrac');
+    expect(() => checkCcdSettings(DEFAULT_CCD_SETTINGS)).not.toThrow();
   });
 });
