@@ -150,3 +150,25 @@ describe('measureLines binning and flags', () => {
     expect(() => measureLines(sky.frame, s.solution, sky.sky, { ...DEFAULT_LINE_SETTINGS, snrTarget: 0 })).toThrow(InputError);
   });
 });
+
+describe('measureLines flags', () => {
+  it('flags H-alpha and [N II] as blended when the lines are broader than their separation allows', () => {
+    // 250 km/s gas at 0.9 A/px: observed sigma about 5.6 A, two FWHM 26 A, beyond the 14.75 A to [N II] 6548.
+    const { table } = reduce({ seed: 41, gasSigmaKms: 250 }, { redshiftGuessKms: 3000 });
+    const ha = table.measurements.filter((m) => m.line === 'Halpha');
+    expect(ha.length).toBeGreaterThan(0);
+    expect(ha.every((m) => (m.flags & LINE_FLAGS.blended) !== 0)).toBe(true);
+  });
+
+  it('flags a line whose core sits on columns where the sky left residuals', () => {
+    const s = makeSyntheticFrame({ seed: 42 });
+    const sky = subtractSky(s.frame, s.solution, DEFAULT_SKY_SETTINGS).product;
+    const x = Math.round((REST_HA * (1 + s.vLos[60]! / C) - s.options.lambda0) / s.options.dispersion);
+    for (let k = -1; k <= 1; k++) sky.sky.residualNormRms[x + k] = 3;
+    const r = measureLines(sky.frame, s.solution, sky.sky, DEFAULT_LINE_SETTINGS).product;
+    const bin = r.bins.findIndex((b) => b.rowStart <= 60 && b.rowEnd >= 60);
+    expect(r.measurements.find((m) => m.bin === bin && m.line === 'Halpha')!.flags & LINE_FLAGS.skyResidual).toBeTruthy();
+    const far = r.bins.findIndex((b) => b.rowStart <= 29 && b.rowEnd >= 29);
+    expect(r.measurements.find((m) => m.bin === far && m.line === 'Halpha')!.flags & LINE_FLAGS.skyResidual).toBeFalsy();
+  });
+});
