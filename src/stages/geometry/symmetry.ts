@@ -222,39 +222,61 @@ function fitOnce(p: PvSamples, active: Uint8Array, opts: SymmetryOptions, scratc
 /** Bootstrap draws: the error of an error from 50 draws is about 10%. */
 const BOOTSTRAP_DRAWS = 50;
 const BOOTSTRAP_SEED = 20260;
-/** How far (rows) a bootstrap draw looks for its minimum: several times the centre errors met in tests. */
-const BOOTSTRAP_REACH_ROWS = 0.6;
+/** First reach (rows) of a draw's search; widened while draws land near its edge. */
+const BOOTSTRAP_FIRST_REACH_ROWS = 1;
+const BOOTSTRAP_MAX_WIDENINGS = 3;
 
-/** Fit the centre and v_sys (either may be fixed), with bootstrap errors. */
-export function fitSymmetry(samples: PvSamples, opts: SymmetryOptions): SymmetryResult | null {
+interface Spread {
+  /** Sums of squared deviations of the draws from the fit: centre (rows^2), v_sys (km/s)^2. */
+  scc: number;
+  svv: number;
+  /** Largest centre deviation of a draw (rows). */
+  maxShift: number;
+}
+
+/** The bootstrap draws with a given reach of the centre search (the same seed each time). */
+function bootstrap(samples: PvSamples, best: Best, fitsCentre: boolean, fixedVSys: number | undefined, reach: number): Spread {
   const n = samples.y.length;
   const active = new Uint8Array(n).fill(1);
   const scratch = new Float64Array(2);
-  const best = fitOnce(samples, active, opts, scratch);
-  if (best.fold.n < MIN_COMPARED) return null;
-  const fitsCentre = opts.fixedCentreRow === undefined;
   const { half } = searchWindow(samples, best.windowCentre, best.searchRows);
   const drawn: PvSamples = { ...samples, v: new Float64Array(n) };
   const rng = new Rng(BOOTSTRAP_SEED);
-  let scc = 0;
-  let svv = 0;
+  const out: Spread = { scc: 0, svv: 0, maxShift: 0 };
   for (let b = 0; b < BOOTSTRAP_DRAWS; b++) {
     for (let j = 0; j < n; j++) drawn.v[j] = samples.v[j]! + samples.e[j]! * rng.normal();
-    // Same compared window as the fit; the centre re-found close to the fitted one.
+    // Same compared window as the fit; the centre re-found within the reach of the fitted one.
     const again = fitsCentre
-      ? golden(drawn, active, best.centre - BOOTSTRAP_REACH_ROWS, best.centre + BOOTSTRAP_REACH_ROWS, best.windowCentre, half, opts.fixedVSysKms, scratch)
-      : { centre: best.centre, fold: fold(drawn, active, best.centre, best.windowCentre, half, opts.fixedVSysKms, scratch) };
-    scc += (again.centre - best.centre) ** 2;
-    svv += (again.fold.vSys - best.fold.vSys) ** 2;
+      ? searchCentre(drawn, active, best.centre - reach, best.centre + reach, best.windowCentre, half, fixedVSys, scratch)
+      : { centre: best.centre, fold: fold(drawn, active, best.centre, best.windowCentre, half, fixedVSys, scratch) };
+    out.scc += (again.centre - best.centre) ** 2;
+    out.svv += (again.fold.vSys - best.fold.vSys) ** 2;
+    out.maxShift = Math.max(out.maxShift, Math.abs(again.centre - best.centre));
+  }
+  return out;
+}
+
+/** Fit the centre and v_sys (either may be fixed), with bootstrap errors. */
+export function fitSymmetry(samples: PvSamples, opts: SymmetryOptions): SymmetryResult | null {
+  const active = new Uint8Array(samples.y.length).fill(1);
+  const best = fitOnce(samples, active, opts, new Float64Array(2));
+  if (best.fold.n < MIN_COMPARED) return null;
+  const fitsCentre = opts.fixedCentreRow === undefined;
+  let reach = BOOTSTRAP_FIRST_REACH_ROWS;
+  let spread = bootstrap(samples, best, fitsCentre, opts.fixedVSysKms, reach);
+  // A draw near the edge of its search would cut the distribution short: widen and draw again.
+  for (let k = 0; fitsCentre && k < BOOTSTRAP_MAX_WIDENINGS && spread.maxShift > 0.7 * reach; k++) {
+    reach = 2.5 * spread.maxShift;
+    spread = bootstrap(samples, best, fitsCentre, opts.fixedVSysKms, reach);
   }
   const nFree = (fitsCentre ? 1 : 0) + (opts.fixedVSysKms === undefined ? 1 : 0);
   const chi2Reduced = best.fold.chi2 / Math.max(1, best.fold.n - nFree);
   const birge = Math.max(1, Math.sqrt(chi2Reduced));
   return {
     centreRow: best.centre,
-    centreRowErr: fitsCentre ? birge * Math.sqrt(scc / BOOTSTRAP_DRAWS) : 0,
+    centreRowErr: fitsCentre ? birge * Math.sqrt(spread.scc / BOOTSTRAP_DRAWS) : 0,
     vSysKms: best.fold.vSys,
-    vSysErrKms: opts.fixedVSysKms === undefined ? birge * Math.sqrt(svv / BOOTSTRAP_DRAWS) : 0,
+    vSysErrKms: opts.fixedVSysKms === undefined ? birge * Math.sqrt(spread.svv / BOOTSTRAP_DRAWS) : 0,
     chi2Reduced,
     nCompared: best.fold.n,
     atSearchEdge: best.atEdge,

@@ -1,6 +1,6 @@
 /**
  * End to end on simulated runs (src/sim, small size): raw frames -> ccd -> arc -> flexure -> sky
- * -> lines -> velocities -> rotation curve, with the stage functions and the manifest's settings.
+ * -> lines -> velocities -> rotation curve, through the runner's setup and target stages.
  * Truth: the line-of-sight velocities the simulator injected per row (truth.vLosKms), turned into
  * rotation speeds with the published relations written out here (REFERENCE.md: relative velocity
  * c (z - z_sys)/(1 + z_sys); thin disk sin i cos theta with tan theta = tan dphi / cos i), and
@@ -10,21 +10,12 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, test } from 'vitest';
-import { skyLines } from '../../../src/physics/index.js';
-import { flipFrameX } from '../../../src/products/orientation.js';
 import { loadManifest } from '../../../src/run/manifest/resolve.js';
-import { loadFrames } from '../../../src/run/pipeline/frames.js';
 import { calibrateSetup } from '../../../src/run/pipeline/setup-stages.js';
-import { geometryInputFor, lineSettingsFor, skySettingsFor, velocitySettingsFor } from '../../../src/run/pipeline/settings.js';
+import { runTargetStages } from '../../../src/run/pipeline/target-stages.js';
 import { StageTimer } from '../../../src/run/pipeline/timer.js';
 import { simulateRun, trueRotation, writeSimulatedRun, type SimVariant } from '../../../src/sim/index.js';
-import { measureFlexure } from '../../../src/stages/arc/flexure.js';
-import { DEFAULT_FLEXURE_SETTINGS } from '../../../src/stages/arc/settings.js';
-import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
-import { binIndex, buildRotationCurve } from '../../../src/stages/geometry/index.js';
-import { measureLines } from '../../../src/stages/lines/index.js';
-import { subtractSky } from '../../../src/stages/sky/subtract.js';
-import { computeVelocities } from '../../../src/stages/velocity/index.js';
+import { binIndex } from '../../../src/stages/geometry/index.js';
 
 const C_KMS = 299792.458; // SI, exact
 const DEG = Math.PI / 180;
@@ -39,15 +30,10 @@ function reduceVariant(variant: SimVariant) {
   const run = loadManifest(join(dir, 'run.yaml'));
   const target = run.targets[0]!;
   const setup = run.setups[target.setup]!;
-  const timer = new StageTimer({}, 8, () => {}, () => 0);
+  const timer = new StageTimer({}, 12, () => {}, () => 0);
   const cal = calibrateSetup(setup, run, timer);
-  const calibrated = calibrateScience(loadFrames(target.frames, run.baseDir), cal.ccd, cal.settings.ccd).product;
-  const science = cal.solution.flipX ? flipFrameX(calibrated) : calibrated;
-  const solution = measureFlexure(science, cal.solution, skyLines(), { ...DEFAULT_FLEXURE_SETTINGS }).product;
-  const sky = subtractSky(science, solution, skySettingsFor(target)).product;
-  const lines = measureLines(sky.frame, solution, sky.sky, lineSettingsFor(target)).product;
-  const velocities = computeVelocities(lines, sky.frame, velocitySettingsFor(setup, target)).product;
-  const curve = buildRotationCurve(velocities, lines, geometryInputFor(setup, target)).product;
+  const job = { target, setup, outputDir: run.outputDir, baseDir: run.baseDir, key: 'e2e', setupKey: 'e2e', inputs: [], runStartMs: 0 };
+  const { lines, curve } = runTargetStages(job, cal, timer);
   return { truth: sim.truth.targets[0]!, lines, curve };
 }
 

@@ -76,6 +76,6 @@ export function synthLines(v: VelocityTable, rows: number, peakRow: number, scal
     measurements: [],
     fits: [],
     continuumProfile,
-    sky: { skyRegions: [], galaxyRegion: [0, rows - 1], skySpectrum: new Float32Array(0), residualNormRms: new Float32Array(0) },
+    sky: { skyRegions: [], galaxyRegion: [0, rows - 1], skySpectrum: new Float32Array(0), residualNormRms: new Float32Array(0), slitFactor: new Float32Array(rows).fill(1), emissionProfile: new Float64Array(rows) },
   };
 }
