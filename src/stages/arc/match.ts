@@ -61,8 +61,11 @@ export function matchPeaks(peaks: MatchPeak[], wavelengths: Float64Array, model:
   return { peak: pairs.map((p) => p.peak), line: pairs.map((p) => p.line) };
 }
 
-/** Fit lambda(x) to matched pairs with weights from the centroid errors (plus the floor), clipped and pruned. */
-export function fitMatches(peaks: MatchPeak[], wavelengths: Float64Array, pairs: { peak: number[]; line: number[] }, order: number, width: number, dispersion: number, clipSigma: number): LineMatches {
+/**
+ * Fit lambda(x) to matched pairs with weights from the centroid errors (plus the floor), turned
+ * into Angstrom by the local dispersion of `scale` (the previous model); clipped and pruned.
+ */
+export function fitMatches(peaks: MatchPeak[], wavelengths: Float64Array, pairs: { peak: number[]; line: number[] }, order: number, width: number, scale: Legendre1D, clipSigma: number): LineMatches {
   const n = pairs.peak.length;
   const x = new Float64Array(n);
   const y = new Float64Array(n);
@@ -71,7 +74,7 @@ export function fitMatches(peaks: MatchPeak[], wavelengths: Float64Array, pairs:
     const p = peaks[pairs.peak[i]!]!;
     x[i] = p.x;
     y[i] = wavelengths[pairs.line[i]!]!;
-    const e = (Number.isFinite(p.xErr) ? Math.hypot(p.xErr, CENTROID_FLOOR_PX) : 1) * dispersion;
+    const e = (Number.isFinite(p.xErr) ? Math.hypot(p.xErr, CENTROID_FLOOR_PX) : 1) * Math.abs(legendre1DStep(scale, p.x));
     w[i] = 1 / (e * e);
   }
   const fit = pruneToErrors(x, y, w, fitLegendre1D(x, y, w, order, { min: 0, max: width - 1 }, { clipSigma, robust: true }));
@@ -109,7 +112,7 @@ export function refineGuess(peaks: MatchPeak[], lines: LampLine[], guess: Linear
     const pairs = matchPeaks(peaks, wavelengths, model, half, step.region * half + 1, tolPx);
     const order = Math.min(step.order, finalOrder, Math.floor(pairs.peak.length / 3));
     if (order < 1) return null;
-    const next = fitMatches(peaks, wavelengths, pairs, order, width, guess.dispersion, clipSigma);
+    const next = fitMatches(peaks, wavelengths, pairs, order, width, model, clipSigma);
     const stable = result !== null && s >= steps.length && sameMatches(result, next);
     result = next;
     model = next.fit.model;

@@ -3,7 +3,7 @@
  * lambda(x, y) fitted to every traced position with clipping (y order chosen by the data or set).
  */
 import { StageError } from '../../errors.js';
-import { legendre2DStepX, type Legendre2D } from '../../kernels/legendre.js';
+import { legendre1DStep, legendre2DStepX, type Legendre2D } from '../../kernels/legendre.js';
 import { fitLegendre2D } from '../../kernels/legendre-fit.js';
 import type { ArcLineMeasurement } from '../../products/wavelength.js';
 import type { BandSpectra } from './band-spectra.js';
@@ -43,7 +43,7 @@ export function fitAlongSlit(bands: BandSpectra, bandPeaks: ArcPeak[][], central
   const px = Float64Array.from(points, (p) => p.x);
   const py = Float64Array.from(points, (p) => bands.yCentre[p.band]!);
   const pz = Float64Array.from(points, (p) => startLines[p.line]!.wavelength);
-  const pw = Float64Array.from(points, (p) => 1 / (Math.hypot(p.xErr, CENTROID_FLOOR_PX) * id.guess.dispersion) ** 2);
+  const pw = Float64Array.from(points, (p) => 1 / (Math.hypot(p.xErr, CENTROID_FLOOR_PX) * legendre1DStep(matches.fit.model, p.x)) ** 2);
   const range = { xMin: 0, xMax: width - 1, yMin: 0, yMax: Math.max(height - 1, 1) };
   const bandsWithLines = new Set(points.map((p) => p.band)).size;
   const maxY = Math.min(settings.maxYOrder, bandsWithLines - 1);
