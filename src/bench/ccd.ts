@@ -8,8 +8,9 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { loadRawFrame } from '../fits/raw-frame.js';
 import { MASK_BITS } from '../products/frame.js';
+import { toInternal } from '../products/orientation.js';
 import type { RunTruth } from '../sim/truth.js';
-import { buildCalibration, calibrateScience, DEFAULT_CCD_SETTINGS } from '../stages/ccd/index.js';
+import { buildCalibration, calibrateScience, DEFAULT_CCD_SETTINGS, type CcdCalibration } from '../stages/ccd/index.js';
 import { laplacianClean } from '../stages/ccd/laplacian-clean.js';
 import { RssPeak } from './harness/rss-peak.js';
 import type { BenchContext, BenchRow } from './types.js';
@@ -57,17 +58,37 @@ export async function benchCcd(ctx: BenchContext): Promise<BenchRow[]> {
       const skip = new Uint16Array(frame.mask.length);
       for (let i = 0; i < skip.length; i++) skip[i] = frame.mask[i]! & ~MASK_BITS.cosmicRay;
       const [clean, cleanMs, cleanRss] = timed(() => laplacianClean(frame.sci, frame.var, skip, cal.width, cal.height, DEFAULT_CCD_SETTINGS.laplacian));
-      const injected = truth.frames[scienceNames[0]!]!.cosmicRays.x.length;
-      const found = clean.hits.reduce((a, b) => a + b, 0);
-      rows.push({ name: 'ccd: single-frame Laplacian cleaning (van Dokkum 2001)', wallMs: cleanMs, peakRssMb: cleanRss, figure: `${cpu()}; ${found} pixels flagged, ${injected} injected, rounds ${clean.perRound.join('/')}`, target: '< 5000 ms' });
+      const hit = injectedHits(truth, [scienceNames[0]!], cal);
+      let found = 0;
+      for (const p of hit) if (clean.hits[p] || skip[p]) found++;
+      const flagged = clean.hits.reduce((a, b) => a + b, 0);
+      rows.push({ name: 'ccd: single-frame Laplacian cleaning (van Dokkum 2001)', wallMs: cleanMs, peakRssMb: cleanRss, figure: `${cpu()}; ${((100 * found) / hit.length).toFixed(1)}% of ${hit.length} injected hit pixels masked, ${flagged} flagged, rounds ${clean.perRound.join('/')}`, target: '< 5000 ms' });
       return [oneMs, oneRss, cleanMs, cleanRss];
     };
     const [oneMs, oneRss, cleanMs, cleanRss] = single();
     const [all, allMs, allRss] = timed(() => calibrateScience(science, cal, DEFAULT_CCD_SETTINGS));
-    rows.push({ name: `ccd: calibrate and combine ${science.length} exposures with cosmic-ray rejection`, wallMs: allMs, peakRssMb: allRss, figure: `${cpu()}; ${all.diagnostics.map((d) => d.message).join('; ')}` });
+    const hit = injectedHits(truth, scienceNames, cal);
+    let found = 0;
+    for (const p of hit) if (all.product.rejected![p] || all.product.mask[p]) found++;
+    rows.push({ name: `ccd: calibrate and combine ${science.length} exposures with cosmic-ray rejection`, wallMs: allMs, peakRssMb: allRss, figure: `${cpu()}; ${((100 * found) / hit.length).toFixed(1)}% of ${hit.length} injected hit pixels rejected or masked` });
     rows.push({ name: 'ccd: peak memory of the whole step', wallMs: calMs + oneMs + cleanMs + allMs, peakRssMb: Math.max(calRss, oneRss, cleanRss, allRss), target: '< 1024 MB' });
   } finally {
     await rss.stop();
   }
   return rows;
+}
+
+/** Internal indices of the pixels the simulator hit in these frames (truth lists raw trimmed pixels). */
+function injectedHits(truth: RunTruth, frames: string[], cal: CcdCalibration): number[] {
+  const tw = cal.orientation.transpose ? cal.height : cal.width;
+  const th = cal.orientation.transpose ? cal.width : cal.height;
+  const raw = new Uint16Array(tw * th);
+  for (const name of frames) {
+    const c = truth.frames[name]!.cosmicRays;
+    for (let k = 0; k < c.x.length; k++) raw[c.y[k]! * tw + c.x[k]!] = 1;
+  }
+  const internal = toInternal(raw, tw, th, cal.orientation).data;
+  const out: number[] = [];
+  for (let i = 0; i < internal.length; i++) if (internal[i]) out.push(i);
+  return out;
 }
