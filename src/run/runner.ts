@@ -87,43 +87,44 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
   }
 
   const outcomes = new Map<string, TargetOutcome>();
-  const calibrations = new Map<string, SetupCalibration>();
   const setupMs: Record<string, Record<string, number>> = {};
   const caching: Promise<void>[] = [];
-  for (const setupName of [...new Set(jobs.map((j) => j.setup.name))]) {
-    const setup = run.setups[setupName]!;
-    const mine = jobs.filter((j) => j.setup.name === setupName);
-    emit({ type: 'setup-start', t: now(), setup: setupName, targets: mine.map((j) => j.target.name) });
-    const result = calibrateSetupCached(setup, run, setupKeyOf(setup).key, Boolean(opts.force), emit, now);
-    if (result.ok) {
-      calibrations.set(setupName, result.calibration);
-      if (result.caching) caching.push(result.caching);
+  // Workers start now, so that they load while the main thread calibrates, and each setup's
+  // targets go to them as soon as its calibration is ready (the next setup calibrates meanwhile).
+  const parallel = Math.min(opts.jobs, jobs.length);
+  if (parallel > 1 && !workerScriptAvailable()) emit({ type: 'notice', t: now(), message: 'worker script missing (run `npm run build`): targets run one at a time' });
+  const pool = parallel > 1 && workerScriptAvailable() ? new TargetPool(parallel, emit) : undefined;
+  const inThisThread: [TargetJob, SetupCalibration][] = [];
+  const inWorkers: Promise<void>[] = [];
+  try {
+    for (const setupName of [...new Set(jobs.map((j) => j.setup.name))]) {
+      const setup = run.setups[setupName]!;
+      const mine = jobs.filter((j) => j.setup.name === setupName);
+      emit({ type: 'setup-start', t: now(), setup: setupName, targets: mine.map((j) => j.target.name) });
+      const result = calibrateSetupCached(setup, run, setupKeyOf(setup).key, Boolean(opts.force), emit, now);
+      if (!result.ok) {
+        emit({ type: 'setup-done', t: now(), setup: setupName, status: 'failed', reason: result.reason });
+        for (const j of mine) {
+          const o = failedOutcome(j, result.code, `calibration of setup '${setupName}' failed: ${result.reason}`, {});
+          outcomes.set(j.target.name, o);
+          emit({ type: 'target-done', t: now(), target: j.target.name, status: 'failed', reason: o.entry.reason!, seconds: 0 });
+        }
+        continue;
+      }
       if (result.ms) setupMs[setupName] = result.ms;
+      if (result.caching) caching.push(result.caching);
       emit({ type: 'setup-done', t: now(), setup: setupName, status: result.ms ? 'ok' : 'cached' });
-    } else {
-      emit({ type: 'setup-done', t: now(), setup: setupName, status: 'failed', reason: result.reason });
-      for (const j of mine) {
-        const o = failedOutcome(j, result.code, `calibration of setup '${setupName}' failed: ${result.reason}`, {});
-        outcomes.set(j.target.name, o);
-        emit({ type: 'target-done', t: now(), target: j.target.name, status: 'failed', reason: o.entry.reason!, seconds: 0 });
+      if (pool) {
+        const packed = pack(result.calibration);
+        for (const j of mine) inWorkers.push(pool.run(j, packed).then((o) => void outcomes.set(j.target.name, o)));
+      } else {
+        for (const j of mine) inThisThread.push([j, result.calibration]);
       }
     }
-  }
-
-  const runnable = jobs.filter((j) => calibrations.has(j.setup.name));
-  const parallel = Math.min(opts.jobs, runnable.length);
-  if (parallel > 1 && !workerScriptAvailable()) emit({ type: 'notice', t: now(), message: 'worker script missing (run `npm run build`): targets run one at a time' });
-  if (parallel > 1 && workerScriptAvailable()) {
-    const pool = new TargetPool(parallel, emit);
-    const packed = new Map([...calibrations].map(([name, c]) => [name, pack(c)]));
-    try {
-      const results = await Promise.all(runnable.map((j) => pool.run(j, packed.get(j.setup.name))));
-      runnable.forEach((j, i) => outcomes.set(j.target.name, results[i]!));
-    } finally {
-      await pool.close();
-    }
-  } else {
-    for (const j of runnable) outcomes.set(j.target.name, executeTargetJob(j, calibrations.get(j.setup.name)!, emit));
+    for (const [j, cal] of inThisThread) outcomes.set(j.target.name, executeTargetJob(j, cal, emit));
+    await Promise.all(inWorkers);
+  } finally {
+    await pool?.close();
   }
 
   // A cache that could not be written only costs time on the next run.
