@@ -45,6 +45,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   const th = arcTrim[0]!.height;
   const overscanModel = arcTrim[0]!.overscanModel;
   if (!det.overscan) log.info('no-overscan', 'no overscan section (BIASSEC): the bias level comes from the bias frames alone');
+  else log.info('overscan', `overscan fitted along raw ${arcTrim[0]!.overscanAlong} (Legendre order ${settings.overscanOrder}), RMS ${arcTrim[0]!.overscanRmsAdu.toFixed(3)} ADU about the fit`, { place: { file: frames.arc[0]!.path }, actual: arcTrim[0]!.overscanRmsAdu });
 
   const bias = combineBias(frames.bias.map((f) => trimFrame(f, det, settings.overscanOrder, false)), det.gain, det.readNoiseE, tw, th, settings);
   if (bias.count === 0) log.warn('no-bias', 'no bias frames: only the overscan is subtracted');
@@ -70,7 +71,10 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   const bad = findBadColumns(bias.count > 0 ? bias.data : null, combinedFlat?.data ?? null, tw, th, det.readNoiseE / det.gain, settings.badColumnSigma);
   const badRaw = new Uint16Array(tw * th);
   for (const x of bad.columns) for (let y = 0; y < th; y++) badRaw[y * tw + x] = MASK_BITS.badColumn;
-  if (bad.columns.length > 0) log.info('bad-columns', `${bad.columns.length} bad detector column(s): ${bad.columns.map((x) => x + 1).join(', ')} (1-based, trimmed)`, { actual: bad.columns.length });
+  if (bad.columns.length > 0) {
+    const list = bad.columns.map((x, i) => `${x + 1} (${bad.reasons[i]})`).join(', ');
+    log.info('bad-columns', `${bad.columns.length} bad detector column(s), 1-based in the trimmed frame, found in: ${list}`, { actual: bad.columns.length });
+  }
   const badInternal = toInternal(badRaw, tw, th, orientation);
   const width = badInternal.width;
   const height = badInternal.height;
