@@ -4,7 +4,8 @@
  * residual looks alike and no clipping can single them out. While the kept positions scatter
  * beyond three times their errors (chi2/dof > 9, common practice), the position whose deletion
  * lowers chi2 the most, the largest w_i r_i^2 / (1 - h_i) with h_i its leverage (Cook & Weisberg
- * 1982), is left out, up to a quarter of them.
+ * 1982), is left out, up to a quarter of them. If the fit still does not match the errors then,
+ * the model is wrong rather than a few positions (too low an order), and nothing is left out.
  */
 import { legendreBasis, normalise, type Legendre1D } from '../../kernels/legendre.js';
 import { fitLegendre1D, type LegendreFitResult } from '../../kernels/legendre-fit.js';
@@ -42,5 +43,5 @@ export function pruneToErrors(x: Float64Array, y: Float64Array, w: Float64Array,
     weights[worst] = 0;
     fit = fitLegendre1D(x, y, weights, order, range, { clipSigma: Infinity });
   }
-  return fit;
+  return fit.reducedChi2 > PRUNE_CHI2 ? first : fit;
 }
