@@ -52,7 +52,13 @@ export interface SymmetryResult {
   atSearchEdge: boolean;
 }
 
-const GRID_STEP_ROWS = 0.05;
+/** Grid steps of the centre search (rows): coarse about the start, fine about the coarse result. */
+const COARSE_STEP_ROWS = 0.2;
+const FINE_STEP_ROWS = 0.05;
+/** Width (rows) at which the golden section stops: far below any centre error met. */
+const GOLDEN_TOLERANCE_ROWS = 1e-3;
+/** Grid nodes of a bootstrap draw's search, whatever its reach. */
+const BOOTSTRAP_GRID_STEPS = 12;
 const MIN_COMPARED = 6;
 /** Half-width (rows) of the second, narrow search. */
 const NARROW_SEARCH_ROWS = 1;
@@ -148,9 +154,8 @@ interface Best {
   searchRows: number;
 }
 
-/** Best centre in [lo, hi]: grid, then golden section about the best grid node. */
-function searchCentre(p: PvSamples, active: Uint8Array, lo: number, hi: number, c0: number, half: number, fixedVSys: number | undefined, scratch: Float64Array): Best {
-  const steps = Math.max(1, Math.ceil((hi - lo) / GRID_STEP_ROWS));
+/** Best centre in [lo, hi]: a grid of `steps` intervals, then golden section about the best node. */
+function searchCentre(p: PvSamples, active: Uint8Array, lo: number, hi: number, steps: number, c0: number, half: number, fixedVSys: number | undefined, scratch: Float64Array): Best {
   const step = (hi - lo) / steps;
   let bestK = 0;
   let bestChi2 = Infinity;
@@ -174,7 +179,7 @@ function golden(p: PvSamples, active: Uint8Array, a: number, b: number, c0: numb
   let x2 = a + g * (b - a);
   let f1 = fold(p, active, x1, c0, half, fixedVSys, scratch).chi2;
   let f2 = fold(p, active, x2, c0, half, fixedVSys, scratch).chi2;
-  while (b - a > 1e-4) {
+  while (b - a > GOLDEN_TOLERANCE_ROWS) {
     if (f1 <= f2) {
       b = x2;
       x2 = x1;
@@ -205,18 +210,19 @@ function searchWindow(p: PvSamples, c0: number, searchRows: number): { search: n
   return { search, half: shorter - 2 * search };
 }
 
-function searchAbout(p: PvSamples, active: Uint8Array, c0: number, searchRows: number, fixedVSys: number | undefined, scratch: Float64Array): Best {
+function searchAbout(p: PvSamples, active: Uint8Array, c0: number, searchRows: number, stepRows: number, fixedVSys: number | undefined, scratch: Float64Array): Best {
   const { search, half } = searchWindow(p, c0, searchRows);
   if (search === 0) return { centre: c0, fold: fold(p, active, c0, c0, half, fixedVSys, scratch), atEdge: false, windowCentre: c0, searchRows: 0 };
-  return searchCentre(p, active, c0 - search, c0 + search, c0, half, fixedVSys, scratch);
+  const steps = Math.max(2, Math.ceil((2 * search) / stepRows));
+  return searchCentre(p, active, c0 - search, c0 + search, steps, c0, half, fixedVSys, scratch);
 }
 
 /** Full fit: the centre searched about the start, then again narrowly about that result (more rows compared). */
 function fitOnce(p: PvSamples, active: Uint8Array, opts: SymmetryOptions, scratch: Float64Array): Best {
-  if (opts.fixedCentreRow !== undefined) return searchAbout(p, active, opts.fixedCentreRow, 0, opts.fixedVSysKms, scratch);
-  const coarse = searchAbout(p, active, opts.startRow, opts.searchRows, opts.fixedVSysKms, scratch);
+  if (opts.fixedCentreRow !== undefined) return searchAbout(p, active, opts.fixedCentreRow, 0, FINE_STEP_ROWS, opts.fixedVSysKms, scratch);
+  const coarse = searchAbout(p, active, opts.startRow, opts.searchRows, COARSE_STEP_ROWS, opts.fixedVSysKms, scratch);
   if (coarse.atEdge) return coarse;
-  return searchAbout(p, active, coarse.centre, NARROW_SEARCH_ROWS, opts.fixedVSysKms, scratch);
+  return searchAbout(p, active, coarse.centre, NARROW_SEARCH_ROWS, FINE_STEP_ROWS, opts.fixedVSysKms, scratch);
 }
 
 /** Bootstrap draws: the error of an error from 50 draws is about 10%. */
@@ -225,6 +231,7 @@ const BOOTSTRAP_SEED = 20260;
 /** First reach (rows) of a draw's search; widened while draws land near its edge. */
 const BOOTSTRAP_FIRST_REACH_ROWS = 1;
 const BOOTSTRAP_MAX_WIDENINGS = 3;
+const BOOTSTRAP_PILOT_DRAWS = 8;
 
 interface Spread {
   /** Sums of squared deviations of the draws from the fit: centre (rows^2), v_sys (km/s)^2. */
@@ -235,7 +242,7 @@ interface Spread {
 }
 
 /** The bootstrap draws with a given reach of the centre search (the same seed each time). */
-function bootstrap(samples: PvSamples, best: Best, fitsCentre: boolean, fixedVSys: number | undefined, reach: number): Spread {
+function bootstrap(samples: PvSamples, best: Best, fitsCentre: boolean, fixedVSys: number | undefined, reach: number, draws: number): Spread {
   const n = samples.y.length;
   const active = new Uint8Array(n).fill(1);
   const scratch = new Float64Array(2);
@@ -243,11 +250,11 @@ function bootstrap(samples: PvSamples, best: Best, fitsCentre: boolean, fixedVSy
   const drawn: PvSamples = { ...samples, v: new Float64Array(n) };
   const rng = new Rng(BOOTSTRAP_SEED);
   const out: Spread = { scc: 0, svv: 0, maxShift: 0 };
-  for (let b = 0; b < BOOTSTRAP_DRAWS; b++) {
+  for (let b = 0; b < draws; b++) {
     for (let j = 0; j < n; j++) drawn.v[j] = samples.v[j]! + samples.e[j]! * rng.normal();
     // Same compared window as the fit; the centre re-found within the reach of the fitted one.
     const again = fitsCentre
-      ? searchCentre(drawn, active, best.centre - reach, best.centre + reach, best.windowCentre, half, fixedVSys, scratch)
+      ? searchCentre(drawn, active, best.centre - reach, best.centre + reach, BOOTSTRAP_GRID_STEPS, best.windowCentre, half, fixedVSys, scratch)
       : { centre: best.centre, fold: fold(drawn, active, best.centre, best.windowCentre, half, fixedVSys, scratch) };
     out.scc += (again.centre - best.centre) ** 2;
     out.svv += (again.fold.vSys - best.fold.vSys) ** 2;
@@ -262,13 +269,15 @@ export function fitSymmetry(samples: PvSamples, opts: SymmetryOptions): Symmetry
   const best = fitOnce(samples, active, opts, new Float64Array(2));
   if (best.fold.n < MIN_COMPARED) return null;
   const fitsCentre = opts.fixedCentreRow === undefined;
+  // A few pilot draws set the reach: a draw near the edge of its search would cut the
+  // distribution short, so the reach widens until the pilots land well inside it.
   let reach = BOOTSTRAP_FIRST_REACH_ROWS;
-  let spread = bootstrap(samples, best, fitsCentre, opts.fixedVSysKms, reach);
-  // A draw near the edge of its search would cut the distribution short: widen and draw again.
-  for (let k = 0; fitsCentre && k < BOOTSTRAP_MAX_WIDENINGS && spread.maxShift > 0.7 * reach; k++) {
-    reach = 2.5 * spread.maxShift;
-    spread = bootstrap(samples, best, fitsCentre, opts.fixedVSysKms, reach);
+  for (let k = 0; fitsCentre && k < BOOTSTRAP_MAX_WIDENINGS; k++) {
+    const pilot = bootstrap(samples, best, fitsCentre, opts.fixedVSysKms, reach, BOOTSTRAP_PILOT_DRAWS);
+    if (pilot.maxShift <= 0.5 * reach) break;
+    reach = 3 * pilot.maxShift;
   }
+  const spread = bootstrap(samples, best, fitsCentre, opts.fixedVSysKms, reach, BOOTSTRAP_DRAWS);
   const nFree = (fitsCentre ? 1 : 0) + (opts.fixedVSysKms === undefined ? 1 : 0);
   const chi2Reduced = best.fold.chi2 / Math.max(1, best.fold.n - nFree);
   const birge = Math.max(1, Math.sqrt(chi2Reduced));
