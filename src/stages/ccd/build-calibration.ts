@@ -110,8 +110,9 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   const arc: CalibratedFrame = {
     width, height, sci: arcCombined.sci, var: arcCombined.var, mask: arcCombined.mask, orientation,
     section: det.data, header: frames.arc[0]!.header, exposures: arcInfos, exptimeS: arcCombined.exptimeS,
-    gain: det.gain, readNoiseE: det.readNoiseE, rejected: arcCombined.rejected,
+    gain: det.gain, readNoiseE: det.readNoiseE,
   };
+  if (arcExposures.length > 1) arc.rejected = arcCombined.rejected;
   const product: CcdCalibration = {
     orientation, section: det.data, width, height, gain: det.gain, readNoiseE: det.readNoiseE,
     masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask, arc,

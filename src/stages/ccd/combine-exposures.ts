@@ -27,7 +27,7 @@ export interface CombinedExposures {
   sci: Float32Array;
   var: Float32Array;
   mask: Uint16Array;
-  /** Per pixel, the number of exposures left out as cosmic rays. */
+  /** Per pixel, the number of exposures left out as cosmic rays (empty for a single exposure). */
   rejected: Uint8Array;
   /** Total exposure time, seconds. */
   exptimeS: number;
@@ -48,7 +48,7 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
   const threshold = settings.crSigma;
   const startRank = Math.max(0, Math.floor((nExp - 1) / 2) - 1);
   const all = (1 << nExp) - 1;
-  const rejectBits: BitPlanes = nExp <= 8 ? new Uint8Array(n) : nExp <= 16 ? new Uint16Array(n) : new Uint32Array(n);
+  const rejectBits: BitPlanes = nExp === 1 ? new Uint8Array(0) : nExp <= 8 ? new Uint8Array(n) : nExp <= 16 ? new Uint16Array(n) : new Uint32Array(n);
   const scis = exposures.map((e) => e.sci);
   const t = Float64Array.from(exptimesS);
   const rates = new Float64Array(nExp);
@@ -89,10 +89,10 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
   const sci = nExp === 1 ? scis[0]! : new Float32Array(n);
   const variance = nExp === 1 ? vars[0]! : new Float32Array(n);
   const mask = nExp === 1 ? masks[0]! : new Uint16Array(n);
-  const rejected = new Uint8Array(n);
+  const rejected = new Uint8Array(nExp === 1 ? 0 : n);
   let grown = 0;
   for (let p = 0; p < n; p++) {
-    let out = grownBits[p]! & all;
+    let out = nExp === 1 ? 0 : grownBits[p]! & all;
     let flags = 0;
     if (out === all) {
       // Every exposure rejected: keep the one with the lowest rate, flagged.
