@@ -6,15 +6,15 @@
  */
 import { madSigma, median, medianOfBuffer } from '../../kernels/robust.js';
 
-/** Median of each row over pixels with good[i] set (NaN for a row without any). */
-export function rowMedians(width: number, height: number, values: Float32Array, good: Uint8Array, scratch: Float64Array): Float64Array {
+/** Row medians use every fourth column: a level from ~1000 pixels is plenty, at a quarter of the cost. */
+export const MEDIAN_STRIDE = 4;
+
+/** Median of each row over pixels with good[i] set, every stride-th column (NaN for a row without any). */
+export function rowMedians(width: number, height: number, values: Float32Array, good: Uint8Array, scratch: Float64Array, stride = 1): Float64Array {
   const out = new Float64Array(height);
   for (let y = 0; y < height; y++) {
     let n = 0;
-    for (let x = 0; x < width; x++) {
-      const i = y * width + x;
-      if (good[i]) scratch[n++] = values[i]!;
-    }
+    for (let x = 0, i = y * width; x < width; x += stride, i += stride) if (good[i]) scratch[n++] = values[i]!;
     out[y] = medianOfBuffer(scratch, n);
   }
   return out;
@@ -27,7 +27,7 @@ export function rowMedians(width: number, height: number, values: Float32Array, 
  * removed, then sum over columns of max(0, z - 3) with z the block's noise-normalised excess.
  */
 export function emissionScore(width: number, height: number, residual: Float32Array, variance: Float32Array, good: Uint8Array, halfRows: number, scratch: Float64Array): Float64Array {
-  const level = rowMedians(width, height, residual, good, scratch);
+  const level = rowMedians(width, height, residual, good, scratch, MEDIAN_STRIDE);
   const sum = new Float64Array(width);
   const vsum = new Float64Array(width);
   const count = new Int32Array(width);

@@ -43,11 +43,12 @@ export interface SkySpline {
 
 export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: number, clipSigma: number, iterations: number, rowStep = 1): SkySpline | null {
   const { width, height, wave } = input;
+  // Wavelength increases along each row (internal orientation): its ends bound the range.
   let lo = Infinity;
   let hi = -Infinity;
-  for (let i = 0; i < wave.length; i++) {
-    if (wave[i]! < lo) lo = wave[i]!;
-    if (wave[i]! > hi) hi = wave[i]!;
+  for (let y = 0; y < height; y++) {
+    lo = Math.min(lo, wave[y * width]!);
+    hi = Math.max(hi, wave[y * width + width - 1]!);
   }
   const dispersion = (hi - lo) / Math.max(1, width - 1);
   const slit = new Float64Array(height).fill(1);

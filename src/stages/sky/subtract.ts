@@ -9,7 +9,7 @@ import { median } from '../../kernels/robust.js';
 import { MASK_BITS, type CalibratedFrame, type StageResult } from '../../products/frame.js';
 import type { SkyModel } from '../../products/lines.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
-import { emissionScore, galaxyRun, rowMedians, rowsAbove } from './galaxy-rows.js';
+import { emissionScore, galaxyRun, MEDIAN_STRIDE, rowMedians, rowsAbove } from './galaxy-rows.js';
 import type { SkySettings } from './settings.js';
 import { evaluateRow, fitSkySpline, type SkySpline } from './sky-spline.js';
 
@@ -41,7 +41,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   }
 
   // 1. Continuum profile and a first guess at the sky rows.
-  const continuum = rowMedians(width, height, frame.sci, good, scratch);
+  const continuum = rowMedians(width, height, frame.sci, good, scratch, MEDIAN_STRIDE);
   const contRows = rowsAbove(continuum, settings.detectSigma, rowUsable);
   const firstSky = selectRows(height, rowUsable, contRows, settings.edgeRows);
   // The first sky only has to reveal line emission: every second row, one clipping round.
