@@ -15,6 +15,11 @@ export interface CcdReference {
     width: number; height: number; count: number; gain: number; readNoiseE: number; order: number;
     frames: number[]; levelAdu: number; combined: number[]; kept: number[]; normalised: number[];
   };
+  science: {
+    width: number; height: number; exptimes: number[]; gain: number; readNoiseE: number; biasVarianceAdu: number;
+    crSigma: number; crRelativeScatter: number; flat: number[]; flatVariance: number[]; sci: number[]; var: number[];
+    combinedSci: number[]; combinedVar: number[]; rejected: number[];
+  };
   orientation: { rawWidth: number; rawHeight: number; raw: number[]; transpose: number[]; flip: number[]; transposeFlip: number[] };
 }
 
