@@ -16,7 +16,8 @@ import { resolveInclination } from './inclination.js';
 import { foldLight } from './light.js';
 import { placePoints, recedingSense, usable } from './place.js';
 import { resolveGeometrySettings, type GeometryInput } from './settings.js';
-import { fitSymmetry, pvSamples } from './symmetry.js';
+import { pvSamples } from './mirror.js';
+import { fitSymmetry } from './symmetry.js';
 
 /** The number of outermost curve points averaged into vOuter. */
 const OUTER_POINTS = 3;

@@ -1,6 +1,7 @@
 export * from './settings.js';
 export * from './build.js';
 export * from './symmetry.js';
+export * from './mirror.js';
 export * from './inclination.js';
 export * from './place.js';
 export * from './bins.js';

@@ -1,36 +1,16 @@
 /**
- * Kinematic centre and systemic velocity from the symmetry of the position-velocity curve.
- * A disk in circular rotation is antisymmetric about (centre, v_sys): v(c + s) - v_sys =
- * -(v(c - s) - v_sys). For a trial centre c every point i is compared with the curve interpolated
- * at its mirror row 2c - y_i (from all other points): r_i = v_i + u(2c - y_i) - 2 v_sys, with
- * variance e_i^2 + var(u). v_sys minimises chi-square in closed form for each c; c is found by a
- * grid search refined by golden section. Errors: parametric bootstrap (each draw adds Gaussian
- * noise of the stated errors to every point and re-finds the minimum; seeded, so deterministic),
- * scaled up by sqrt(reduced chi-square) when the sides differ by more than the errors.
+ * Kinematic centre and systemic velocity from the symmetry of the position-velocity curve: the
+ * centre minimises the chi-square of the fold (mirror.ts), found by a grid search refined by
+ * golden section. Errors: parametric bootstrap (each draw adds Gaussian noise of the stated
+ * errors to every point and re-finds the minimum; seeded, so deterministic), scaled up by
+ * sqrt(reduced chi-square) when the sides differ by more than the errors.
  * Chi-square is bumpy in c on the scale of the row spacing (the mirror runs through noisy nodes),
  * so its local curvature, linear propagation, or a delete-one jackknife (removing a node changes
  * the interpolation) all misjudge the error; the bootstrap lets the minimum hop between bumps
  * as the estimate itself does.
  */
-import { median } from '../../kernels/index.js';
 import { Rng } from '../../sim/random.js';
-
-/** Points of the curve sorted by row: internal row (fractional), v_los (km/s), error (km/s). */
-export interface PvSamples {
-  y: Float64Array;
-  v: Float64Array;
-  e: Float64Array;
-  /** Half-width (rows) of the mirror's smoothing kernel; see pvSamples(). */
-  kernelRows: number;
-}
-
-/** Samples from sorted arrays, with the kernel width set from the median row spacing. */
-export function pvSamples(y: Float64Array, v: Float64Array, e: Float64Array): PvSamples {
-  const gaps = new Float64Array(Math.max(0, y.length - 1));
-  for (let k = 1; k < y.length; k++) gaps[k - 1] = y[k]! - y[k - 1]!;
-  const spacing = gaps.length > 0 ? median(gaps) : 1;
-  return { y, v, e, kernelRows: KERNEL_SPACINGS * (spacing > 0 ? spacing : 1) };
-}
+import { foldChiSquare, type FoldChiSquare, type PvSamples } from './mirror.js';
 
 export interface SymmetryOptions {
   /** Where the search starts (internal row), e.g. the continuum peak. */
@@ -63,91 +43,9 @@ const MIN_COMPARED = 6;
 /** Half-width (rows) of the second, narrow search. */
 const NARROW_SEARCH_ROWS = 1;
 
-interface Fold {
-  chi2: number;
-  vSys: number;
-  n: number;
-}
-
-/** Half-width of the mirror's biweight kernel in median row spacings (about a Gaussian of sigma 0.9 spacing). */
-const KERNEL_SPACINGS = 2.5;
-
-/**
- * The curve at row m from the active points other than `skip`: a local linear fit with biweight
- * kernel weights (1 - (x/h)^2)^2 times the error weights (smooth in m, and it averages down the node noise that
- * would make chi-square bumpy); out = [value, variance]. False when m lies outside the points.
- */
-function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, out: Float64Array): boolean {
-  const { y, v, e } = p;
-  const n = y.length;
-  if (!(m >= y[0]! && m <= y[n - 1]!)) return false;
-  const h = p.kernelRows;
-  const reach = h;
-  let lo = 0;
-  let hi = n;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if (y[mid]! < m - reach) lo = mid + 1;
-    else hi = mid;
-  }
-  // Weighted sums of the local linear fit in x = y - m; the value at m is the intercept.
-  let s0 = 0;
-  let s1 = 0;
-  let s2 = 0;
-  for (let k = lo; k < n && y[k]! <= m + reach; k++) {
-    if (active[k] === 0 || k === skip) continue;
-    const x = y[k]! - m;
-    const q = 1 - (x / h) ** 2;
-    const w = (q * q) / (e[k]! * e[k]!);
-    s0 += w;
-    s1 += w * x;
-    s2 += w * x * x;
-  }
-  const det = s0 * s2 - s1 * s1;
-  if (!(s0 > 0) || !(det > 1e-12 * s0 * s2)) return false;
-  // Equivalent kernel: l_k = w_k (s2 - s1 x_k) / det.
-  let value = 0;
-  let variance = 0;
-  for (let k = lo; k < n && y[k]! <= m + reach; k++) {
-    if (active[k] === 0 || k === skip) continue;
-    const x = y[k]! - m;
-    const q = 1 - (x / h) ** 2;
-    const l = ((q * q) / (e[k]! * e[k]!)) * ((s2 - s1 * x) / det);
-    value += l * v[k]!;
-    variance += l * l * e[k]! * e[k]!;
-  }
-  out[0] = value;
-  out[1] = variance;
-  return true;
-}
-
-/** Chi-square of the fold about row c, comparing the active points with |y - c0| <= half. */
-function fold(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, fixedVSys: number | undefined, scratch: Float64Array): Fold {
-  const { y, v, e } = p;
-  let sw = 0;
-  let swx = 0;
-  let swxx = 0;
-  let n = 0;
-  for (let i = 0; i < y.length; i++) {
-    if (active[i] === 0 || Math.abs(y[i]! - c0) > half) continue;
-    if (!interpolate(p, active, i, 2 * c - y[i]!, scratch)) continue;
-    const w = 1 / (e[i]! ** 2 + scratch[1]!);
-    const x = v[i]! + scratch[0]!;
-    sw += w;
-    swx += w * x;
-    swxx += w * x * x;
-    n++;
-  }
-  if (n === 0) return { chi2: Infinity, vSys: NaN, n };
-  // sum w (x - 2 vs)^2 expanded, so one pass suffices.
-  const vSys = fixedVSys ?? swx / (2 * sw);
-  const chi2 = swxx - 4 * vSys * swx + 4 * vSys * vSys * sw;
-  return { chi2, vSys, n };
-}
-
 interface Best {
   centre: number;
-  fold: Fold;
+  fold: FoldChiSquare;
   atEdge: boolean;
   /** Row about which the compared window and the search were laid. */
   windowCentre: number;
@@ -160,7 +58,7 @@ function searchCentre(p: PvSamples, active: Uint8Array, lo: number, hi: number, 
   let bestK = 0;
   let bestChi2 = Infinity;
   for (let k = 0; k <= steps; k++) {
-    const f = fold(p, active, lo + k * step, c0, half, fixedVSys, scratch);
+    const f = foldChiSquare(p, active, lo + k * step, c0, half, fixedVSys, scratch);
     if (f.chi2 < bestChi2) {
       bestChi2 = f.chi2;
       bestK = k;
@@ -177,25 +75,25 @@ function golden(p: PvSamples, active: Uint8Array, a: number, b: number, c0: numb
   const g = (Math.sqrt(5) - 1) / 2;
   let x1 = b - g * (b - a);
   let x2 = a + g * (b - a);
-  let f1 = fold(p, active, x1, c0, half, fixedVSys, scratch).chi2;
-  let f2 = fold(p, active, x2, c0, half, fixedVSys, scratch).chi2;
+  let f1 = foldChiSquare(p, active, x1, c0, half, fixedVSys, scratch).chi2;
+  let f2 = foldChiSquare(p, active, x2, c0, half, fixedVSys, scratch).chi2;
   while (b - a > GOLDEN_TOLERANCE_ROWS) {
     if (f1 <= f2) {
       b = x2;
       x2 = x1;
       f2 = f1;
       x1 = b - g * (b - a);
-      f1 = fold(p, active, x1, c0, half, fixedVSys, scratch).chi2;
+      f1 = foldChiSquare(p, active, x1, c0, half, fixedVSys, scratch).chi2;
     } else {
       a = x1;
       x1 = x2;
       f1 = f2;
       x2 = a + g * (b - a);
-      f2 = fold(p, active, x2, c0, half, fixedVSys, scratch).chi2;
+      f2 = foldChiSquare(p, active, x2, c0, half, fixedVSys, scratch).chi2;
     }
   }
   const centre = (a + b) / 2;
-  return { centre, fold: fold(p, active, centre, c0, half, fixedVSys, scratch), atEdge: false, windowCentre: c0, searchRows: 0 };
+  return { centre, fold: foldChiSquare(p, active, centre, c0, half, fixedVSys, scratch), atEdge: false, windowCentre: c0, searchRows: 0 };
 }
 
 /**
@@ -212,7 +110,7 @@ function searchWindow(p: PvSamples, c0: number, searchRows: number): { search: n
 
 function searchAbout(p: PvSamples, active: Uint8Array, c0: number, searchRows: number, stepRows: number, fixedVSys: number | undefined, scratch: Float64Array): Best {
   const { search, half } = searchWindow(p, c0, searchRows);
-  if (search === 0) return { centre: c0, fold: fold(p, active, c0, c0, half, fixedVSys, scratch), atEdge: false, windowCentre: c0, searchRows: 0 };
+  if (search === 0) return { centre: c0, fold: foldChiSquare(p, active, c0, c0, half, fixedVSys, scratch), atEdge: false, windowCentre: c0, searchRows: 0 };
   const steps = Math.max(2, Math.ceil((2 * search) / stepRows));
   return searchCentre(p, active, c0 - search, c0 + search, steps, c0, half, fixedVSys, scratch);
 }
@@ -255,7 +153,7 @@ function bootstrap(samples: PvSamples, best: Best, fitsCentre: boolean, fixedVSy
     // Same compared window as the fit; the centre re-found within the reach of the fitted one.
     const again = fitsCentre
       ? searchCentre(drawn, active, best.centre - reach, best.centre + reach, BOOTSTRAP_GRID_STEPS, best.windowCentre, half, fixedVSys, scratch)
-      : { centre: best.centre, fold: fold(drawn, active, best.centre, best.windowCentre, half, fixedVSys, scratch) };
+      : { centre: best.centre, fold: foldChiSquare(drawn, active, best.centre, best.windowCentre, half, fixedVSys, scratch) };
     out.scc += (again.centre - best.centre) ** 2;
     out.svv += (again.fold.vSys - best.fold.vSys) ** 2;
     out.maxShift = Math.max(out.maxShift, Math.abs(again.centre - best.centre));
