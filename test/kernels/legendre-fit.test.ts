@@ -48,11 +48,13 @@ describe('fitLegendre2D', () => {
     fit.model.coeffs.forEach((c, k) => expect(c).toBeCloseTo(f.coeffs[k], 9));
   });
 
-  it('evalLegendre2DGrid equals evalLegendre2D at every pixel centre', () => {
+  it('evalLegendre2DGrid and evalLegendre2D match numpy legval2d at every pixel centre of a 41 x 10 grid', () => {
     const f = ref.fit2d;
-    const model = { kind: 'legendre2d' as const, xOrder: f.xOrder, yOrder: f.yOrder, xMin: 0, xMax: 40, yMin: 0, yMax: 9, coeffs: f.coeffs };
-    const out = evalLegendre2DGrid(model, 41, 10, new Float64Array(410));
-    for (let y = 0; y < 10; y++) for (let x = 0; x <= 40; x++) expect(out[y * 41 + x]).toBeCloseTo(evalLegendre2D(model, x, y), 12);
+    const g = ref.grid2d;
+    const model = { kind: 'legendre2d' as const, xOrder: f.xOrder, yOrder: f.yOrder, xMin: 0, xMax: g.xMax, yMin: 0, yMax: g.yMax, coeffs: f.coeffs };
+    const out = evalLegendre2DGrid(model, g.width, g.height, new Float64Array(g.width * g.height));
+    out.forEach((v, i) => expect(v).toBeCloseTo(g.values[i], 12));
+    for (let y = 0; y < g.height; y++) for (let x = 0; x < g.width; x++) expect(evalLegendre2D(model, x, y)).toBeCloseTo(g.values[y * g.width + x], 12);
   });
 });
 
