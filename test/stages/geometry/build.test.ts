@@ -31,6 +31,15 @@ describe('deprojection and fold of a noiseless disk', () => {
     expect(curve.points.every((p) => !p.oneSided || p.rArcsec > 40)).toBe(true);
   });
 
+  test('radii in kpc use 1 arcsec = 4.848136811e-3 D kpc at D Mpc (REFERENCE.md Constants, from pi / 648000)', () => {
+    const t: DiskTruth = { centreRow: 100, vSysKms: 3000, inclinationDeg: 60, slitToMajorDeg: 0, arcsecPerPixel: SCALE, curve: () => 200 };
+    const v = synthVelocities(t, { rows: ROWS, seed: 8, error: () => 1 });
+    const curve = buildRotationCurve(v, synthLines(v, ROWS, 100), { ...settingsFor(t), distanceMpc: 17.5 }).product;
+    expect(curve.geometry.kpcPerArcsec / (4.848136811e-3 * 17.5)).toBeCloseTo(1, 9);
+    for (const p of curve.points) expect(p.rKpc).toBeCloseTo(p.rArcsec * 4.848136811e-3 * 17.5, 9);
+    for (const l of curve.light) expect(l.rKpc).toBeCloseTo(l.rArcsec * 4.848136811e-3 * 17.5, 9);
+  });
+
   test('the inclination error propagates as V cot(i) sigma_i: 1.01% per degree at i = 60 (REFERENCE.md Geometry)', () => {
     const t: DiskTruth = { centreRow: 100, vSysKms: 3000, inclinationDeg: 60, slitToMajorDeg: 0, arcsecPerPixel: SCALE, curve: () => 200 };
     const v = synthVelocities(t, { rows: ROWS, seed: 2, error: () => 1e-6 });
