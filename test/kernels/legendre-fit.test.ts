@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { legendreValue, evalLegendre2D, evalLegendre2DGrid, evalLegendre1D } from '../../src/kernels/legendre.js';
+import { legendreValue, evalLegendre2D, evalLegendre2DGrid, evalLegendre1D, legendre1DStep, legendre2DStepX } from '../../src/kernels/legendre.js';
 import { fitLegendre1D, fitLegendre2D } from '../../src/kernels/legendre-fit.js';
 
 // Reference: Debian python3-numpy, numpy.polynomial.legendre (legval, legfit, legvander2d + lstsq);
@@ -74,5 +74,18 @@ describe('fitLegendre1D robust clipping', () => {
     expect(robust.used[12]).toBe(0);
     expect(robust.nUsed).toBe(12);
     robust.model.coeffs.forEach((c, k) => expect(Math.abs(c - ref.fit1dSubset.coeffs[k])).toBeLessThan(1e-6 * Math.max(1, Math.abs(ref.fit1dSubset.coeffs[k]))));
+  });
+});
+
+describe('per-pixel steps of Legendre series', () => {
+  it('equal the derivative for a quadratic series (P2 = (3u^2 - 1)/2, Abramowitz & Stegun 22.3.8; central differences are exact for quadratics)', () => {
+    const m1 = { kind: 'legendre1d' as const, min: 0, max: 1023, coeffs: [6650, 562, -2.6] };
+    const m2 = { kind: 'legendre2d' as const, xOrder: 2, yOrder: 0, xMin: 0, xMax: 1023, yMin: 0, yMax: 299, coeffs: [6650, 562, -2.6] };
+    for (const x of [0, 100, 511.5, 1023]) {
+      const u = (2 * x - 1023) / 1023;
+      const derivative = (562 + 3 * -2.6 * u) * (2 / 1023);
+      expect(legendre1DStep(m1, x)).toBeCloseTo(derivative, 10);
+      expect(legendre2DStepX(m2, x, 150)).toBeCloseTo(derivative, 10);
+    }
   });
 });
