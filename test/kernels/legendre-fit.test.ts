@@ -78,7 +78,7 @@ describe('fitLegendre1D robust clipping', () => {
 });
 
 describe('per-pixel steps of Legendre series', () => {
-  it('equal the derivative for a quadratic series (P2 = (3u^2 - 1)/2, Abramowitz & Stegun 22.3.8; central differences are exact for quadratics)', () => {
+  it('equal the derivative for a quadratic series (with the textbook P2 = (3u^2 - 1)/2; central differences are exact for quadratics)', () => {
     const m1 = { kind: 'legendre1d' as const, min: 0, max: 1023, coeffs: [6650, 562, -2.6] };
     const m2 = { kind: 'legendre2d' as const, xOrder: 2, yOrder: 0, xMin: 0, xMax: 1023, yMin: 0, yMax: 299, coeffs: [6650, 562, -2.6] };
     for (const x of [0, 100, 511.5, 1023]) {
