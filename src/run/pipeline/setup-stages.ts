@@ -20,7 +20,7 @@ import { VERSION } from '../../version.js';
 import type { EventSink } from '../events.js';
 import { writeFileAtomic } from '../io/atomic.js';
 import { readCachedCalibration, writeCachedCalibration } from '../io/state.js';
-import type { ResolvedRun, ResolvedSetup } from '../manifest/resolve.js';
+import { manifestRelative, type ResolvedRun, type ResolvedSetup } from '../manifest/resolve.js';
 import { describeFailure } from '../failure.js';
 import { loadFrames } from './frames.js';
 import { arcSettingsFor, ccdSettingsFor } from './settings.js';
@@ -70,15 +70,12 @@ export function calibrateSetupCached(setup: ResolvedSetup, run: ResolvedRun, key
 export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: StageTimer): SetupCalibration {
   const ccdSettings = ccdSettingsFor(setup);
   const arcSettings = arcSettingsFor(setup);
-  const frames = timer.stage(SETUP_STAGES[0], () => {
-    const [bias, flat, arc] = [setup.bias, setup.flat, setup.arc].map((paths) => loadFrames(paths, run.baseDir));
-    return { product: { bias: bias!.product, flat: flat!.product, arc: arc!.product }, diagnostics: [bias!, flat!, arc!].flatMap((r) => r.diagnostics) };
-  });
-  const ccd = timer.stage(SETUP_STAGES[1], () => buildCalibration(frames, ccdSettings));
+  const ccd = ccdCalibration(setup, run, ccdSettings, timer);
+  const names = (paths: readonly string[]) => paths.map((p) => manifestRelative(run.baseDir, p));
   const lampLines: LampLine[] = [...loadLampLines(setup.lamps), ...setup.line_lists.flatMap((f) => readLineListFile(f))].sort((a, b) => a.wavelength - b.wavelength);
   const solution = timer.stage(SETUP_STAGES[2], () => solveWavelengths(ccd.arc, lampLines, arcSettings));
   const history = [
-    `whorl ${VERSION}: setup ${setup.name}: ${frames.bias.length} bias, ${frames.flat.length} flat, ${frames.arc.length} arc frames`,
+    `whorl ${VERSION}: setup ${setup.name}: ${setup.bias.length} bias, ${setup.flat.length} flat, ${setup.arc.length} arc frames`,
     `ccd: gain ${ccd.gain} e-/ADU, read noise ${ccd.readNoiseE} e-, ${ccd.badColumns.length} bad columns`,
     `ccd: orientation transpose=${ccd.orientation.transpose} flipX=${solution.flipX}`,
     `arc: ${solution.lines.filter((l) => l.used).length} lines, rms ${solution.rmsAngstrom.toPrecision(3)} A`,
@@ -86,15 +83,15 @@ export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: St
   const dir = join('calib', setup.folder);
   const products = timer.step(SETUP_STAGES[3], () => {
     const files: [string, CalibrationFits][] = [
-      ['bias.fits', masterBiasFits(ccd, frames.bias.map((f) => f.path), history)],
-      ['flat.fits', masterFlatFits(ccd, frames.flat.map((f) => f.path), history)],
+      ['bias.fits', masterBiasFits(ccd, names(setup.bias), history)],
+      ['flat.fits', masterFlatFits(ccd, names(setup.flat), history)],
     ];
     const written = files.map(([name, fits]) => {
       writeFileAtomic(join(run.outputDir, dir, name), writeFits(fits.hdus, { primaryHeader: fits.primaryHeader }));
       return join(dir, name);
     });
     const texts: [string, string][] = [
-      ['solution.json', formatSolutionJson(solution, frames.arc.map((f) => f.path))],
+      ['solution.json', formatSolutionJson(solution, names(setup.arc))],
       ['arc-lines.csv', formatArcLinesCsv(solution)],
     ];
     for (const [name, text] of texts) {
@@ -104,4 +101,13 @@ export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: St
     return written;
   });
   return { ccd, solution, diagnostics: timer.diagnostics, settings: { ccd: ccdSettings, arc: arcSettings }, products, history };
+}
+
+/** Loading and the CCD stage in a function of their own, so the raw frames are freed when it returns. */
+function ccdCalibration(setup: ResolvedSetup, run: ResolvedRun, settings: CcdSettings, timer: StageTimer): CcdCalibration {
+  const frames = timer.stage(SETUP_STAGES[0], () => {
+    const [bias, flat, arc] = [setup.bias, setup.flat, setup.arc].map((paths) => loadFrames(paths, run.baseDir));
+    return { product: { bias: bias!.product, flat: flat!.product, arc: arc!.product }, diagnostics: [bias!, flat!, arc!].flatMap((r) => r.diagnostics) };
+  });
+  return timer.stage(SETUP_STAGES[1], () => buildCalibration(frames, settings));
 }

@@ -41,11 +41,9 @@ export interface TargetStageSettings {
 }
 
 export interface TargetProducts {
-  /** The combined, calibrated science frame in the internal orientation (wavelength increasing with x). */
-  science: CalibratedFrame;
   /** The setup's wavelength solution, shifted by this frame's flexure. */
   solution: WavelengthSolution;
-  /** Sky-subtracted frame and the sky model. */
+  /** The combined, calibrated and sky-subtracted science frame, internal orientation (wavelength increasing with x). */
   skySubtracted: CalibratedFrame;
   sky: SkyModel;
   lines: LineTable;
@@ -63,14 +61,27 @@ export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: St
     velocity: velocitySettingsFor(job.setup, job.target),
     geometry: geometryInputFor(job.setup, job.target),
   };
-  const frames = timer.stage(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
-  const calibrated = timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
-  // The arc stage decided the direction of the wavelengths; the science follows it.
-  const science = cal.solution.flipX ? flipFrameX(calibrated) : calibrated;
-  const solution = timer.stage(TARGET_STAGES[2], () => measureFlexure(science, cal.solution, skyLines(), settings.flexure));
-  const sky = timer.stage(TARGET_STAGES[3], () => subtractSky(science, solution, settings.sky));
+  const { solution, sky } = skySubtractedScience(job, cal, settings, timer);
   const lines = timer.stage(TARGET_STAGES[4], () => measureLines(sky.frame, solution, sky.sky, settings.lines));
   const velocities = timer.stage(TARGET_STAGES[5], () => computeVelocities(lines, sky.frame, settings.velocity));
   const curve = timer.stage(TARGET_STAGES[6], () => buildRotationCurve(velocities, lines, settings.geometry));
-  return { science, solution, skySubtracted: sky.frame, sky: sky.sky, lines, velocities, curve, settings };
+  return { solution, skySubtracted: sky.frame, sky: sky.sky, lines, velocities, curve, settings };
+}
+
+/**
+ * The stages up to the sky, in a function of their own so that the raw frames and the frame
+ * before sky subtraction can be freed once it returns (full-size frames are tens of MB each).
+ */
+function skySubtractedScience(job: TargetJob, cal: SetupCalibration, settings: TargetStageSettings, timer: StageTimer) {
+  const science = calibratedScience(job, cal, settings, timer);
+  const solution = timer.stage(TARGET_STAGES[2], () => measureFlexure(science, cal.solution, skyLines(), settings.flexure));
+  const sky = timer.stage(TARGET_STAGES[3], () => subtractSky(science, solution, settings.sky));
+  return { solution, sky };
+}
+
+function calibratedScience(job: TargetJob, cal: SetupCalibration, settings: TargetStageSettings, timer: StageTimer): CalibratedFrame {
+  const frames = timer.stage(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
+  const calibrated = timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
+  // The arc stage decided the direction of the wavelengths; the science follows it.
+  return cal.solution.flipX ? flipFrameX(calibrated) : calibrated;
 }

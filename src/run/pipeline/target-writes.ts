@@ -34,7 +34,7 @@ export function writeTargetProducts(job: TargetJob, cal: SetupCalibration, p: Ta
   };
   const history = [
     ...cal.history,
-    `whorl ${VERSION}: target ${job.target.name}: ${p.science.exposures.length} exposure(s) combined, ${p.science.exptimeS} s`,
+    `whorl ${VERSION}: target ${job.target.name}: ${p.skySubtracted.exposures.length} exposure(s) combined, ${p.skySubtracted.exptimeS} s`,
     `sky: ${p.sky.skyRegions.map(([a, b]) => `rows ${a + 1}-${b + 1}`).join(', ')} (1-based, along the slit)`,
     `diagnostics: ${diagnostics.filter((d) => d.severity === 'warning').length} warning(s)`,
   ];
