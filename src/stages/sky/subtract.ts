@@ -29,6 +29,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   if (solution.width !== width || solution.height !== height) {
     throw new StageError('sky', 'size-mismatch', `wavelength solution is ${solution.width} x ${solution.height}, frame is ${width} x ${height}`);
   }
+  checkSettings(settings);
   const log = new DiagnosticLog('sky');
   const good = new Uint8Array(width * height);
   for (let i = 0; i < good.length; i++) good[i] = (frame.mask[i]! & BAD) === 0 && frame.var[i]! > 0 && Number.isFinite(frame.sci[i]!) ? 1 : 0;
@@ -60,6 +61,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const emRows = emissionRows(emission, rowUsable, width, settings.detectSigma);
   const flagged = new Uint8Array(height);
   for (let y = 0; y < height; y++) flagged[y] = contRows[y]! | emRows[y]!;
+  // The peak is sought on continuum excess (e/px) plus emission score: whichever the galaxy shows dominates.
   const strength = new Float64Array(height);
   const contLevel = median(continuum);
   for (let y = 0; y < height; y++) strength[y] = (continuum[y]! - contLevel) + emission[y]!;
@@ -114,6 +116,18 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
     emissionProfile: emission,
   };
   return { product: { frame: { ...frame, sci, var: variance }, sky }, diagnostics: log.items };
+}
+
+function checkSettings(s: SkySettings): void {
+  const bad = (key: string, expected: string, actual: unknown): never => {
+    throw new InputError('sky.bad-setting', `invalid sky setting ${key}`, { key: `sky.${key}` }, { expected, actual: JSON.stringify(actual) });
+  };
+  if (!Number.isInteger(s.order) || s.order < 0 || s.order > 5) bad('order', 'an integer from 0 to 5', s.order);
+  if (!(s.knotSpacingPx >= 0.25 && s.knotSpacingPx <= 10)) bad('knotSpacingPx', 'a spacing from 0.25 to 10 pixels', s.knotSpacingPx);
+  if (!(s.clipSigma > 0)) bad('clipSigma', 'a positive number of sigmas', s.clipSigma);
+  for (const key of ['edgeRows', 'marginRows', 'gapRows', 'clipIterations', 'minSkyRows'] as const) {
+    if (!Number.isInteger(s[key]) || s[key] < 0) bad(key, 'an integer >= 0', s[key]);
+  }
 }
 
 function fit(frame: CalibratedFrame, solution: WavelengthSolution, good: Uint8Array, rows: Uint8Array, order: number, settings: SkySettings, rowStep = 1): SkySpline | null {

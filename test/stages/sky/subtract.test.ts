@@ -110,3 +110,11 @@ describe('subtractSky', () => {
     expect(Math.abs(r.product.frame.sci[i]! - out.sci[i]!)).toBeLessThan(0.5 * Math.sqrt(out.var[i]!));
   });
 });
+
+describe('subtractSky settings', () => {
+  it('refuses an impossible slit order or knot spacing with an InputError naming the setting', () => {
+    const { frame, solution } = makeSyntheticFrame({ seed: 4, height: 60, centreRow: 30 });
+    expect(() => subtractSky(frame, solution, { ...DEFAULT_SKY_SETTINGS, order: -1 })).toThrow(/sky setting order/);
+    expect(() => subtractSky(frame, solution, { ...DEFAULT_SKY_SETTINGS, knotSpacingPx: 0 })).toThrow(InputError);
+  });
+});
