@@ -66,6 +66,20 @@ describe('reduceRun on a simulated two-target night', () => {
     expect(provenance.libraries['zod']).toMatch(/^\d+\.\d+\.\d+/);
   });
 
+  it('fails every target of a setup whose calibration frames are unreadable, with the reason', async () => {
+    const dir = copyOfSimulatedRun(TWO, 'badcal');
+    const run = loadManifest(join(dir, 'run.yaml'));
+    writeFileSync(run.setups['red']!.arc[0]!, 'SIMPLE  = T'); // not a FITS file any more
+    const events: RunEvent[] = [];
+    const r = await reduceRun(run, { jobs: 1, onEvent: (e) => events.push(e) });
+    expect(r.summary.counts).toEqual({ ok: 0, failed: 2, notRun: 0 });
+    for (const t of r.summary.targets) {
+      expect(t.reason).toMatch(/^calibration of setup 'red' failed: .*arc_001\.fits/);
+      expect(t.reasonCode).toMatch(/^fits\./);
+    }
+    expect(events.find((e) => e.type === 'setup-done')).toMatchObject({ status: 'failed' });
+  });
+
   it('reruns only what changed, and --force redoes everything', async () => {
     const dir = copyOfSimulatedRun(TWO, 'cache');
     const manifest = join(dir, 'run.yaml');
