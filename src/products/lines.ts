@@ -3,15 +3,23 @@
  * Rows are internal 0-based; writers convert to 1-based raw rows at the edge.
  */
 
-/** Flag bits of a line measurement. Zero means clean. */
+/** Flag bits of a line measurement. Zero means clean. Criteria: src/stages/lines/measurements.ts and settings.ts. */
 export const LINE_FLAGS = {
+  /** Flux S/N below the bin target (snrTarget). */
   lowSnr: 1,
+  /** Reduced chi-square above poorFitChi2. */
   poorFit: 2,
+  /** Centre or width on its bound, or this line's flux held at zero. */
   atBound: 4,
+  /** A masked pixel within 3 sigma of the line centre. */
   maskedPixels: 8,
+  /** Sky residual (SkyModel.residualNormRms) above skyResidualLimit within 2 sigma of the centre. */
   skyResidual: 16,
+  /** Another line of the group closer than two FWHM. */
   blended: 32,
+  /** The fit stopped on its iteration budget. */
   notConverged: 64,
+  /** Width held at the median of the high-S/N bins (S/N below freeWidthSnr); no dispersion error. */
   widthConstrained: 128,
 } as const;
 
