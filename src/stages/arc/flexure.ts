@@ -18,6 +18,8 @@ import { givenSkyRows, skyRowMask } from './sky-rows.js';
 
 /** Sky lines closer than this many LSF sigmas to a neighbour above a tenth of their intensity are blends (common practice). */
 const BLEND_SIGMAS = 4;
+/** A shift beyond this many sigmas is a disagreement between sky and arc worth a warning (common practice). */
+const SIGNIFICANT_SIGMAS = 3;
 /** A fitted width outside this factor of the instrumental width is not a clean sky line (common practice). */
 const WIDTH_FACTOR = 2;
 
@@ -142,7 +144,10 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
       log.warn('flexure-disagree', `the ${usable.length} sky lines disagree about the shift beyond their errors (chi2 ${chi2.toFixed(1)} for ${dof} dof); error scaled by sqrt(chi2/dof)`, { place: file ? { file } : {}, expected: `chi2 <= ${(dof + 3 * Math.sqrt(2 * dof)).toFixed(1)}`, actual: chi2.toFixed(1) });
     }
     const kms = (shift / lambdaMid) * SPEED_OF_LIGHT_KMS;
-    log.info('flexure', `sky-line shift ${shift.toFixed(4)} +- ${shiftErr.toFixed(4)} A (${kms.toFixed(2)} km/s, ${(shift / dispersion).toFixed(3)} px) from ${usable.length} lines in ${nSky} sky rows; applied`, { place: file ? { file } : {} });
+    const summary = `sky-line shift ${shift.toFixed(4)} +- ${shiftErr.toFixed(4)} A (${kms.toFixed(2)} km/s, ${(shift / dispersion).toFixed(3)} px) from ${usable.length} lines in ${nSky} sky rows; applied`;
+    // the sky lines disagree with the arc beyond their errors: the correction matters, say so
+    if (Math.abs(shift) > SIGNIFICANT_SIGMAS * shiftErr) log.warn('flexure', `the night-sky lines disagree with the arc solution by ${(Math.abs(shift) / shiftErr).toFixed(1)} sigma: ${summary}`, { place: file ? { file } : {}, expected: '0 A', actual: `${shift.toFixed(4)} +- ${shiftErr.toFixed(4)} A` });
+    else log.info('flexure', summary, { place: file ? { file } : {} });
     if (Math.abs(shift) > 2 * Math.abs(dispersion)) log.warn('large-flexure', `the sky lines are ${(shift / dispersion).toFixed(2)} px off the arc solution: more than the usual 0.1-2 px of flexure (common practice); check that the arc belongs to this setup`, { place: file ? { file } : {} });
   }
   const wave = new Float64Array(solution.wave.length);

@@ -49,7 +49,9 @@ describe('solveWavelengths on simulated raw runs', () => {
         // no flexure in the simulator: the sky lines of the science frame must agree with the arc
         const target = run.truth.targets[0]!;
         const sci = calibrateScience(run.frames.filter((f) => f.kind === 'science' && f.target === target.name).map(simFrameToRaw), cal, DEFAULT_CCD_SETTINGS).product;
-        const f = measureFlexure(s.flipX ? flipFrameX(sci) : sci, s, skyLines(), DEFAULT_FLEXURE_SETTINGS).product.flexure!;
+        const fr = measureFlexure(s.flipX ? flipFrameX(sci) : sci, s, skyLines(), DEFAULT_FLEXURE_SETTINGS);
+        const f = fr.product.flexure!;
+        expect(fr.diagnostics.filter((d) => d.severity !== 'info').map((d) => d.message)).toEqual([]);
         expect(f.lines.filter((l) => l.used).length).toBeGreaterThanOrEqual(3);
         expect(Math.abs(f.shiftAngstrom)).toBeLessThan(4 * f.shiftErrAngstrom);
       }
