@@ -38,10 +38,18 @@ export interface WavelengthSolution {
   lsfSigmaPx: Legendre2D;
   /** True when the internal frame was flipped so that wavelength increases with x. */
   flipX: boolean;
+  /** One entry per identified line per row band it was traced in. */
   lines: ArcLineMeasurement[];
+  /**
+   * RMS of (solution - laboratory wavelength) over the used entries of `lines`, Angstrom: the
+   * scatter of one measured line position about the solution (tested against the true position
+   * errors on simulated arcs), not the error of the solution itself, which is smaller by about
+   * sqrt(used positions / coefficients).
+   */
   rmsAngstrom: number;
+  /** The same RMS in pixels (each residual divided by the local dispersion). */
   rmsPx: number;
-  /** RMS expressed as a velocity at the centre of the range. */
+  /** The same RMS as a velocity (km/s) at the wavelength of the detector centre. */
   rmsKms: number;
   /** Wavelength range covered by identified lines (outside is extrapolation). */
   identifiedRange: [number, number];
