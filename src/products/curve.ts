@@ -139,6 +139,8 @@ export interface SymmetryFit {
   chi2Reduced: number;
   /** Points compared with the mirrored other side. */
   nCompared: number;
+  /** Points left out of the centre fit for being more than 5 robust sigmas off their mirror (still folded). */
+  nDropped: number;
   /**
    * Error method: parametric bootstrap (Gaussian noise of the stated errors added to every point,
    * the fit repeated; seeded), scaled by sqrt(chi2Reduced) when that exceeds 1.

@@ -89,7 +89,7 @@ export function curveJson(curve: RotationCurve, extra: Record<string, unknown> =
     centre_row: jsonNumber(curve.centreRow + 1),
     centre_row_err: jsonNumber(curve.centreRowErr),
     centre_source: curve.centreSource,
-    symmetry: curve.symmetry && { chi2_reduced: jsonNumber(curve.symmetry.chi2Reduced), n_compared: curve.symmetry.nCompared, error_method: curve.symmetry.errorMethod },
+    symmetry: curve.symmetry && { chi2_reduced: jsonNumber(curve.symmetry.chi2Reduced), n_compared: curve.symmetry.nCompared, n_dropped: curve.symmetry.nDropped, error_method: curve.symmetry.errorMethod },
     geometry: {
       inclination: g.inclinationDeg,
       inclination_err: g.inclinationErrDeg,

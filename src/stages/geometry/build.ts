@@ -69,6 +69,7 @@ export function buildRotationCurve(
       place: { row: Math.round(sym.centreRow) },
     });
   }
+  if (sym.nDropped > 0) log.info('asymmetric-points', `${sym.nDropped} velocity points are more than 5 robust sigmas off their mirror and were left out of the centre fit (they are still folded)`);
   if (sym.chi2Reduced > 3) {
     log.warn('asymmetric', `the two sides of the curve differ by more than their errors (reduced chi-square ${sym.chi2Reduced.toFixed(2)} of the fold)`, {
       expected: 'about 1',
@@ -104,7 +105,7 @@ export function buildRotationCurve(
       centreRowErr: sym.centreRowErr,
       centreSource: settings.centreRow !== undefined ? 'given' : 'fitted',
       vSysSource: settings.systemicVelocityKms !== undefined ? 'given' : 'fitted',
-      symmetry: { chi2Reduced: sym.chi2Reduced, nCompared: sym.nCompared, errorMethod: 'bootstrap', startRow },
+      symmetry: { chi2Reduced: sym.chi2Reduced, nCompared: sym.nCompared, nDropped: sym.nDropped, errorMethod: 'bootstrap', startRow },
       recedingSense: sense,
       geometry,
       pv,

@@ -5,7 +5,7 @@
  * r_i = v_i + u(2c - y_i) - 2 v_sys, with variance e_i^2 + var(u); v_sys minimises chi-square in
  * closed form for each c.
  */
-import { median } from '../../kernels/index.js';
+import { madSigma, median } from '../../kernels/index.js';
 
 /** Points of the curve sorted by row: internal row (fractional), v_los (km/s), error (km/s). */
 export interface PvSamples {
@@ -104,4 +104,30 @@ export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: n
   const vSys = fixedVSys ?? swx / (2 * sw);
   const chi2 = swxx - 4 * vSys * swx + 4 * vSys * vSys * sw;
   return { chi2, vSys, n };
+}
+
+/**
+ * Leave out (active = 0) the points that disagree with their mirror by more than `limit` times
+ * the robust scatter (MAD) of the normalised residuals (at least 1 sigma), at the centre c and
+ * systemic velocity vSys; returns how many. Scaling by the scatter keeps a fold whose errors are
+ * all too small, or a centre far off, from losing most of its points. A point far off its mirror
+ * also pulls the mirrors of its neighbours' partners, but diluted by the kernel: one pass suffices.
+ */
+export function dropAsymmetricPoints(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, vSys: number, limit: number, scratch: Float64Array): number {
+  const { y, v, e } = p;
+  const z = new Float64Array(y.length).fill(NaN);
+  for (let i = 0; i < y.length; i++) {
+    if (active[i] === 0 || Math.abs(y[i]! - c0) > half) continue;
+    if (!interpolate(p, active, i, 2 * c - y[i]!, scratch)) continue;
+    z[i] = (v[i]! + scratch[0]! - 2 * vSys) / Math.sqrt(e[i]! ** 2 + scratch[1]!);
+  }
+  const cut = limit * Math.max(1, madSigma(z));
+  let dropped = 0;
+  for (let i = 0; i < y.length; i++) {
+    if (Math.abs(z[i]!) > cut) {
+      active[i] = 0;
+      dropped++;
+    }
+  }
+  return dropped;
 }

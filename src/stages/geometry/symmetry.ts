@@ -10,7 +10,7 @@
  * as the estimate itself does.
  */
 import { Rng } from '../../sim/random.js';
-import { foldChiSquare, type FoldChiSquare, type PvSamples } from './mirror.js';
+import { dropAsymmetricPoints, foldChiSquare, type FoldChiSquare, type PvSamples } from './mirror.js';
 
 export interface SymmetryOptions {
   /** Where the search starts (internal row), e.g. the continuum peak. */
@@ -30,6 +30,8 @@ export interface SymmetryResult {
   nCompared: number;
   /** True when the best centre lies at the edge of the searched range. */
   atSearchEdge: boolean;
+  /** Points left out of the fit for disagreeing with their mirror by more than OUTLIER_SIGMA robust sigmas. */
+  nDropped: number;
 }
 
 /** Grid steps of the centre search (rows): coarse about the start, fine about the coarse result. */
@@ -40,6 +42,8 @@ const GOLDEN_TOLERANCE_ROWS = 1e-3;
 /** Grid nodes of a bootstrap draw's search, whatever its reach. */
 const BOOTSTRAP_GRID_STEPS = 12;
 const MIN_COMPARED = 6;
+/** A point this many robust sigmas off its mirror is left out of the centre fit (common practice: 5-sigma clipping). */
+const OUTLIER_SIGMA = 5;
 /** Half-width (rows) of the second, narrow search. */
 const NARROW_SEARCH_ROWS = 1;
 
@@ -140,9 +144,8 @@ interface Spread {
 }
 
 /** The bootstrap draws with a given reach of the centre search (the same seed each time). */
-function bootstrap(samples: PvSamples, best: Best, fitsCentre: boolean, fixedVSys: number | undefined, reach: number, draws: number): Spread {
+function bootstrap(samples: PvSamples, active: Uint8Array, best: Best, fitsCentre: boolean, fixedVSys: number | undefined, reach: number, draws: number): Spread {
   const n = samples.y.length;
-  const active = new Uint8Array(n).fill(1);
   const scratch = new Float64Array(2);
   const { half } = searchWindow(samples, best.windowCentre, best.searchRows);
   const drawn: PvSamples = { ...samples, v: new Float64Array(n) };
@@ -164,18 +167,24 @@ function bootstrap(samples: PvSamples, best: Best, fitsCentre: boolean, fixedVSy
 /** Fit the centre and v_sys (either may be fixed), with bootstrap errors. */
 export function fitSymmetry(samples: PvSamples, opts: SymmetryOptions): SymmetryResult | null {
   const active = new Uint8Array(samples.y.length).fill(1);
-  const best = fitOnce(samples, active, opts, new Float64Array(2));
+  const scratch = new Float64Array(2);
+  let best = fitOnce(samples, active, opts, scratch);
+  if (best.fold.n < MIN_COMPARED) return null;
+  const { half } = searchWindow(samples, best.windowCentre, best.searchRows);
+  // A centre at the edge of the search is not trusted enough to judge points by.
+  const nDropped = best.atEdge ? 0 : dropAsymmetricPoints(samples, active, best.centre, best.windowCentre, half, best.fold.vSys, OUTLIER_SIGMA, scratch);
+  if (nDropped > 0) best = fitOnce(samples, active, opts, scratch);
   if (best.fold.n < MIN_COMPARED) return null;
   const fitsCentre = opts.fixedCentreRow === undefined;
   // A few pilot draws set the reach: a draw near the edge of its search would cut the
   // distribution short, so the reach widens until the pilots land well inside it.
   let reach = BOOTSTRAP_FIRST_REACH_ROWS;
   for (let k = 0; fitsCentre && k < BOOTSTRAP_MAX_WIDENINGS; k++) {
-    const pilot = bootstrap(samples, best, fitsCentre, opts.fixedVSysKms, reach, BOOTSTRAP_PILOT_DRAWS);
+    const pilot = bootstrap(samples, active, best, fitsCentre, opts.fixedVSysKms, reach, BOOTSTRAP_PILOT_DRAWS);
     if (pilot.maxShift <= 0.5 * reach) break;
     reach = 3 * pilot.maxShift;
   }
-  const spread = bootstrap(samples, best, fitsCentre, opts.fixedVSysKms, reach, BOOTSTRAP_DRAWS);
+  const spread = bootstrap(samples, active, best, fitsCentre, opts.fixedVSysKms, reach, BOOTSTRAP_DRAWS);
   const nFree = (fitsCentre ? 1 : 0) + (opts.fixedVSysKms === undefined ? 1 : 0);
   const chi2Reduced = best.fold.chi2 / Math.max(1, best.fold.n - nFree);
   const birge = Math.max(1, Math.sqrt(chi2Reduced));
@@ -187,5 +196,6 @@ export function fitSymmetry(samples: PvSamples, opts: SymmetryOptions): Symmetry
     chi2Reduced,
     nCompared: best.fold.n,
     atSearchEdge: best.atEdge,
+    nDropped,
   };
 }

@@ -55,3 +55,17 @@ describe('centre and systemic velocity by symmetry', () => {
     expect(fitSymmetry(p, { startRow: 130, searchRows: 8 })!.atSearchEdge).toBe(true);
   });
 });
+
+test('a point 40 sigma off (a bad line fit) is left out of the centre fit, and the centre stays within its errors', () => {
+  const clean = samples(12, 100.4, 2000, 1, () => 3);
+  const v = Float64Array.from(clean.v);
+  const k = clean.y.indexOf(104);
+  v[k] = v[k]! + 120;
+  const dirty = { ...clean, v };
+  const a = fitSymmetry(clean, { startRow: 100, searchRows: 8 })!;
+  const b = fitSymmetry(dirty, { startRow: 100, searchRows: 8 })!;
+  expect(a.nDropped).toBe(0);
+  expect(b.nDropped).toBeGreaterThanOrEqual(1);
+  expect(Math.abs(b.centreRow - 100.4)).toBeLessThan(3 * b.centreRowErr);
+  expect(Math.abs(b.vSysKms - 2000)).toBeLessThan(3 * b.vSysErrKms);
+});
