@@ -77,6 +77,9 @@ function describeIssue(issue: z.core.$ZodIssue, doc: Document, lines: LineCounte
     const key = issue.keys[0]!;
     return at(doc, lines, [...path, key], `unknown key '${key}'${issue.keys.length > 1 ? ` (and ${issue.keys.slice(1).join(', ')})` : ''}`, true);
   }
+  if (valueAt(data, path) === null) {
+    return at(doc, lines, path, `no value given (expected ${wanted(issue)})`);
+  }
   if (!present(data, path)) {
     // Placed at the key of the mapping that lacks it, which is where the user will add it.
     const p = at(doc, lines, path.slice(0, -1), `missing key '${String(path[path.length - 1] ?? '')}'${expectation(issue)}`, path.length > 1);
@@ -85,12 +88,16 @@ function describeIssue(issue: z.core.$ZodIssue, doc: Document, lines: LineCounte
   return at(doc, lines, path, plainMessage(issue));
 }
 
-/** What the schema wanted, in words, for a missing key. */
+/** What the schema wanted, in words. */
+function wanted(issue: z.core.$ZodIssue): string {
+  if (issue.code === 'invalid_type') return issue.expected;
+  if (issue.code === 'invalid_value') return `one of ${issue.values.map(String).join(', ')}`;
+  return issue.message.replace(/^missing key: /, '');
+}
+
+/** The same, as the tail of a "missing key" message. */
 function expectation(issue: z.core.$ZodIssue): string {
-  if (issue.code === 'invalid_type') return ` (expected ${issue.expected})`;
-  if (issue.code === 'invalid_value') return ` (expected one of ${issue.values.map(String).join(', ')})`;
-  if (issue.code === 'custom') return `: ${issue.message.replace(/^missing key: /, '')}`;
-  return '';
+  return issue.code === 'custom' ? `: ${wanted(issue)}` : ` (expected ${wanted(issue)})`;
 }
 
 function plainMessage(issue: z.core.$ZodIssue): string {
@@ -112,13 +119,18 @@ function plainMessage(issue: z.core.$ZodIssue): string {
   }
 }
 
-function present(data: unknown, path: readonly PathPart[]): boolean {
+/** The value at `path`, or undefined when a key on the way is absent (null stays null: `key: ` with no value). */
+function valueAt(data: unknown, path: readonly PathPart[]): unknown {
   let cur: unknown = data;
   for (const p of path) {
-    if (cur === null || typeof cur !== 'object' || !(p in (cur as object))) return false;
+    if (cur === null || typeof cur !== 'object' || !(p in (cur as object))) return undefined;
     cur = (cur as Record<PathPart, unknown>)[p];
   }
-  return cur !== undefined && cur !== null;
+  return cur;
+}
+
+function present(data: unknown, path: readonly PathPart[]): boolean {
+  return valueAt(data, path) !== undefined;
 }
 
 /** A problem placed at the deepest node of `path` that exists (the key itself when `atKey`). */

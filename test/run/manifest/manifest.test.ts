@@ -79,6 +79,12 @@ describe('loadManifest', () => {
     expect(e.message).toMatch(/missing key 'slit_pa_deg' \(expected number\)/);
   });
 
+  it('says "no value given" at a key left empty (as drafts from whorl inventory leave them)', () => {
+    const e = refused(ISSUE_EXAMPLE.replace('arcsec_per_pixel: 0.40', 'arcsec_per_pixel: null  # FILL IN'));
+    expect(e.place).toMatchObject({ key: 'setups.red.arcsec_per_pixel', line: 5, column: 23 });
+    expect(e.message).toContain('no value given (expected number)');
+  });
+
   it('names a wrong type at the value, with line:column in the message', () => {
     const e = refused(ISSUE_EXAMPLE.replace('inclination_deg: 58', 'inclination_deg: "steep"'));
     expect(e.place).toMatchObject({ key: 'targets[0].inclination_deg', line: 20, column: 22 });
