@@ -83,8 +83,10 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   const records = binRows(ctx, centreRow, start);
   if (records.length === 0) throw new StageError('lines', 'no-emission', `${binName} never reached S/N 3 in any bin around row ${centreRow}`);
 
-  // Width held where S/N is low, at the median velocity width of the bins above freeWidthSnr.
-  const held = heldWidths(records, specs.length, settings.freeWidthSnr);
+  // Width held where S/N is low, at the median velocity width of the bins above freeWidthSnr; a
+  // group with no such bin borrows the binning group's (same gas, nearly the same instrument).
+  const own = heldWidths(records, specs.length, settings.freeWidthSnr);
+  const held = own.map((r) => (r === r ? r : own[binGroup]!));
   const bins: RowBin[] = [];
   const measurements: LineMeasurement[] = [];
   const fits: BinFit[] = [];
@@ -107,7 +109,10 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   });
 
   for (const [gi, spec] of specs.entries()) {
-    if (held[gi] !== held[gi]) log.warn('width-unconstrained', `no ${spec.name} bin reached S/N ${settings.freeWidthSnr}: widths left free at every S/N`, { place: { line: spec.name } });
+    if (own[gi] !== own[gi]) {
+      const borrowed = held[gi] === held[gi];
+      log.warn('width-unconstrained', `no ${spec.name} bin reached S/N ${settings.freeWidthSnr}: ${borrowed ? `width held at the ${specs[binGroup]!.name} median` : 'widths left free at every S/N'}`, { place: { line: spec.name } });
+    }
     const missing = records.filter((r) => r.groups[gi] === null).length;
     if (missing > 0) log.warn('group-not-fitted', `${spec.name} could not be fitted in ${missing} of ${records.length} bins (window outside the frame or masked)`, { place: { line: spec.name } });
   }

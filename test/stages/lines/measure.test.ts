@@ -152,6 +152,18 @@ describe('measureLines binning and flags', () => {
 });
 
 describe('measureLines flags', () => {
+  it('holds the width of a group too faint ever to reach the free-width S/N at the H-alpha group median', () => {
+    // No [S II] is injected: every [S II] fit is noise, its width borrowed from H-alpha + [N II].
+    const s = makeSyntheticFrame({ seed: 43 });
+    const sky = subtractSky(s.frame, s.solution, DEFAULT_SKY_SETTINGS).product;
+    const r = measureLines(sky.frame, s.solution, sky.sky, { ...DEFAULT_LINE_SETTINGS, lines: ['Halpha', 'NII6583', 'NII6548', 'SII6716', 'SII6731'] });
+    const warn = r.diagnostics.find((d) => d.rule === 'lines.width-unconstrained');
+    expect(warn?.message).toMatch(/held at the Halpha\+NII median/);
+    const sii = r.product.measurements.filter((m) => m.group === 'SII');
+    expect(sii.length).toBeGreaterThan(0);
+    expect(sii.every((m) => (m.flags & LINE_FLAGS.widthConstrained) !== 0)).toBe(true);
+  });
+
   it('flags H-alpha and [N II] as blended when the lines are broader than their separation allows', () => {
     // 250 km/s gas at 0.9 A/px: observed sigma about 5.6 A, two FWHM 26 A, beyond the 14.75 A to [N II] 6548.
     const { table } = reduce({ seed: 41, gasSigmaKms: 250 }, { redshiftGuessKms: 3000 });
