@@ -1,5 +1,5 @@
 /**
- * End to end on simulated runs (src/sim, small size): raw frames -> ccd -> arc -> flexure -> sky
+ * End to end on simulated runs (src/sim, small size; the four variants of issue 7 and faint): raw frames -> ccd -> arc -> flexure -> sky
  * -> lines -> velocities -> rotation curve, through the runner's setup and target stages.
  * Truth: the line-of-sight velocities the simulator injected per row (truth.vLosKms), turned into
  * rotation speeds with the published relations written out here (REFERENCE.md: relative velocity
@@ -37,7 +37,7 @@ function reduceVariant(variant: SimVariant) {
   return { truth: sim.truth.targets[0]!, lines, curve };
 }
 
-describe.each(['standard', 'offset', 'rotated', 'falling'] as const)('simulated %s run', (variant) => {
+describe.each(['standard', 'offset', 'rotated', 'falling', 'faint'] as const)('simulated %s run', (variant) => {
   const { truth, lines, curve } = reduceVariant(variant);
   // |sin i cos theta| of the slit from REFERENCE.md's thin-disk relations.
   const dphi = (truth.slitPaDeg - truth.majorAxisPaDeg) * DEG;
