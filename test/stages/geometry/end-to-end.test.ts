@@ -1,6 +1,7 @@
 /**
- * End to end on simulated runs (src/sim, small size; the four variants of issue 7 and faint): raw frames -> ccd -> arc -> flexure -> sky
- * -> lines -> velocities -> rotation curve, through the runner's setup and target stages.
+ * End to end on simulated runs (src/sim, small size; the four variants of issue 7, and faint):
+ * raw frames -> ccd -> arc -> flexure -> sky -> lines -> velocities -> rotation curve, through the
+ * runner's setup and target stages.
  * Truth: the line-of-sight velocities the simulator injected per row (truth.vLosKms), turned into
  * rotation speeds with the published relations written out here (REFERENCE.md: relative velocity
  * c (z - z_sys)/(1 + z_sys); thin disk sin i cos theta with tan theta = tan dphi / cos i), and
