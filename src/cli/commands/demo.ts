@@ -10,6 +10,7 @@ import { loadManifest } from '../../run/manifest/resolve.js';
 import { plainProgress } from '../../run/progress/plain.js';
 import { reduceRun } from '../../run/runner.js';
 import { simulateRun } from '../../sim/simulate.js';
+import { trueRotation } from '../../sim/truth.js';
 import { writeSimulatedRun } from '../../sim/write.js';
 import type { CliIo } from '../io.js';
 import type { CommandRegistrar } from '../main.js';
@@ -42,7 +43,11 @@ export const registerDemo: CommandRegistrar = (program: Command, io: CliIo, setE
         io.out(`  products  ${folder}/\n`);
         io.out(`  report    ${join(folder, 'report.html')}\n`);
         const n = t.numbers;
-        if (n.vOuterKms !== undefined) io.out(`  v_outer   ${n.vOuterKms.toFixed(1)} km/s (folded curve, outermost points)\n`);
+        if (n.vOuterKms !== undefined) {
+          const r = n.rMaxKpc;
+          const simulated = truth && r !== undefined ? `; simulated V at ${r.toFixed(1)} kpc: ${trueRotation(truth, r / truth.kpcPerArcsec).toFixed(1)}` : '';
+          io.out(`  v_outer   ${n.vOuterKms.toFixed(1)} km/s (folded curve, outermost points${simulated})\n`);
+        }
         if (n.vSysKms !== undefined) io.out(`  v_sys     ${n.vSysKms.toFixed(1)} +- ${(n.vSysErrKms ?? NaN).toFixed(1)} km/s barycentric${truth ? ` (simulated: ${truth.vSysKms.toFixed(1)})` : ''}\n`);
       }
       io.out(`run index ${join(run.outputDir, 'index.html')}\n`);
