@@ -1,4 +1,4 @@
-import { existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -45,5 +45,17 @@ describe('whorl simulate', () => {
       expect(r.err).not.toMatch(/\n\s+at /);
     }
     expect(existsSync(join(base, 'bad'))).toBe(false);
+  });
+
+  it('exits 2 naming the path, before simulating, when a file stands at --out or above it', async () => {
+    const file = join(base, 'a-file');
+    writeFileSync(file, 'not a folder\n');
+    for (const out of [file, join(file, 'night')]) {
+      const r = await whorl('simulate', '--out', out);
+      expect(r.code).toBe(2);
+      expect(r.err).toContain(out);
+      expect(r.err).toContain('--out');
+      expect(r.err).not.toMatch(/internal error|\n\s+at /);
+    }
   });
 });

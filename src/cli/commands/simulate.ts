@@ -1,4 +1,5 @@
 /** `whorl simulate --out DIR`: write a simulated raw observing night with its truth and run.yaml. */
+import { statSync } from 'node:fs';
 import type { Command } from 'commander';
 import { EXIT, InputError } from '../../errors.js';
 import { SIM_VARIANTS, type SimOptions } from '../../sim/options.js';
@@ -22,6 +23,34 @@ function wholeNumber(text: string | undefined, flag: string): number | undefined
   const n = Number(text);
   if (!/^\d+$/.test(text.trim()) || !Number.isSafeInteger(n)) throw new InputError('cli.not-a-number', `bad ${flag}`, { key: flag }, { expected: 'a whole number', actual: text });
   return n;
+}
+
+/** Codes of file-system refusals that are the user's to fix (a file in the way, no permission, read-only disk). */
+const USER_FS_CODES = new Set(['ENOTDIR', 'EEXIST', 'EACCES', 'EPERM', 'EROFS', 'ENOSPC']);
+
+/** The --out folder must be a folder or not exist yet; checked before minutes of simulation. */
+function checkOutFolder(dir: string): void {
+  let isFile: boolean;
+  try {
+    const stat = statSync(dir, { throwIfNoEntry: false });
+    isFile = stat !== undefined && !stat.isDirectory();
+  } catch (e) {
+    if ((e as NodeJS.ErrnoException).code !== 'ENOTDIR') throw e;
+    isFile = true; // a file stands where a parent folder should be
+  }
+  if (isFile) throw new InputError('cli.out-not-folder', 'cannot write the run there', { file: dir, key: '--out' }, { expected: 'a folder or a new path', actual: 'a file in the way' });
+}
+
+/** Write the run, turning a refusal by the file system into an InputError naming the path. */
+function writeRunOrExplain(run: ReturnType<typeof simulateRun>, dir: string): void {
+  try {
+    writeSimulatedRun(run, dir);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code === undefined || !USER_FS_CODES.has(code)) throw e;
+    const path = (e as NodeJS.ErrnoException).path ?? dir;
+    throw new InputError('cli.out-not-writable', `cannot write the run (${code})`, { file: path, key: '--out' }, { expected: 'a writable folder' });
+  }
 }
 
 /** The options of the command as simulator options (the simulator checks ranges and names). */
@@ -51,8 +80,10 @@ export const registerSimulate: CommandRegistrar = (program: Command, io: CliIo, 
     .option('--expected', 'also write the noiseless expected image of each frame under expected/')
     .action((flags: SimulateFlags) => {
       const started = performance.now();
-      const run = simulateRun(simulateOptionsFromFlags(flags));
-      writeSimulatedRun(run, flags.out);
+      const options = simulateOptionsFromFlags(flags);
+      checkOutFolder(flags.out);
+      const run = simulateRun(options);
+      writeRunOrExplain(run, flags.out);
       const seconds = (performance.now() - started) / 1000;
       const kinds = ['bias', 'flat', 'arc', 'science'].map((k) => `${run.frames.filter((f) => f.kind === k).length} ${k}`).join(', ');
       io.out(`simulated ${run.frames.length} frames (${kinds}) in ${seconds.toFixed(1)} s\n`);
