@@ -2,7 +2,8 @@
  * `whorl reduce`: from a resolved manifest to products. Calibrations are computed once per setup
  * (in this thread, cached on disk by content), then targets run in parallel on worker threads;
  * each target's products are cached by a key of its inputs' sha256, its resolved settings, the
- * stages that exist and the whorl version, so a rerun redoes only what changed.
+ * stages that exist, the whorl version and a hash of whorl's code, so a rerun redoes only what
+ * changed.
  */
 import { mkdirSync } from 'node:fs';
 import { basename, join } from 'node:path';
@@ -10,6 +11,7 @@ import { InputError } from '../errors.js';
 import { VERSION } from '../version.js';
 import type { EventSink, RunEvent } from './events.js';
 import { removePartialFiles } from './io/atomic.js';
+import { codeFingerprint } from './io/code-fingerprint.js';
 import { canonicalJson, sha256File, sha256Text } from './io/hash.js';
 import { pack } from './io/pack.js';
 import { isUpToDate, readTargetState, STATE_DIR } from './io/state.js';
@@ -49,6 +51,7 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
   emit({ type: 'run-start', t: 0, targets: selected.map((t) => t.name), jobs: opts.jobs, stages: [...SETUP_STAGES, ...TARGET_STAGES] });
   prepareFolders(run);
 
+  const code = codeFingerprint();
   const hashes = new Map<string, string>();
   const hashOf = (p: string) => hashes.get(p) ?? (hashes.set(p, sha256File(p)), hashes.get(p)!);
   const rel = (p: string) => manifestRelative(run.baseDir, p);
@@ -64,7 +67,7 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
     if (!k) {
       const inputs = setupInputs(s);
       const settings = { ...s, bias: undefined, flat: undefined, arc: undefined, line_lists: undefined };
-      k = { key: sha256Text(canonicalJson({ whorl: VERSION, stages: SETUP_STAGES, settings, inputs })), inputs };
+      k = { key: sha256Text(canonicalJson({ whorl: VERSION, code, stages: SETUP_STAGES, settings, inputs })), inputs };
       setupKeys.set(s.name, k);
     }
     return k;
@@ -77,7 +80,7 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
     const sk = setupKeyOf(setup);
     const inputs = [...sk.inputs, ...t.frames.map((f) => ({ role: 'science' as const, file: rel(f), sha256: hashOf(f) }))];
     const settings = { ...t, frames: undefined };
-    const key = sha256Text(canonicalJson({ whorl: VERSION, stages: TARGET_STAGES, setupKey: sk.key, settings, inputs }));
+    const key = sha256Text(canonicalJson({ whorl: VERSION, code, stages: TARGET_STAGES, setupKey: sk.key, settings, inputs }));
     if (!opts.force && isUpToDate(run.outputDir, readTargetState(run.outputDir, t.folder), key)) {
       cached.push(t.name);
       emit({ type: 'target-done', t: now(), target: t.name, status: 'cached', seconds: 0 });

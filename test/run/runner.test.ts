@@ -87,9 +87,8 @@ describe('reduceRun on a simulated two-target night', () => {
     expect(first.cached).toEqual([]);
     const before = listFiles(join(dir, 'products'), isTimedOrState).map((f) => [f, readBytes(join(dir, 'products'), f)] as const);
 
-    const t0 = performance.now();
+    // (the time of such a rerun, < 2 s in issue 8, is measured by npm run bench, not here)
     const again = await reduceRun(loadManifest(manifest), { jobs: 1 });
-    expect(performance.now() - t0).toBeLessThan(2000); // issue 8: a rerun with nothing changed in under 2 s
     expect(again.cached.sort()).toEqual(first.summary.targets.map((t) => t.name).sort());
     expect(again.setupMs).toEqual({});
     for (const [f, bytes] of before) expect(readBytes(join(dir, 'products'), f).equals(bytes), f).toBe(true);
