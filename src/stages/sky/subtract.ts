@@ -11,6 +11,7 @@ import type { SkyModel } from '../../products/lines.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
 import { emissionScore, galaxyRun, MEDIAN_STRIDE, rowMedians, rowsAbove } from './galaxy-rows.js';
 import type { SkySettings } from './settings.js';
+import { maskCoherentEmission } from './emission-mask.js';
 import { evaluateRow, fitSkySpline, type SkySpline } from './sky-spline.js';
 
 /** Mask bits that make a pixel unusable for the sky fit and the profiles. */
@@ -21,6 +22,8 @@ const EXCESS_MEAN = 3.82e-4;
 const EXCESS_SQUARE = 2.03e-4;
 /** Rows either side of a row in its emission block (9 rows: faint outer emission gains a factor 3 in S/N). */
 const EMISSION_HALF_ROWS = 4;
+/** Rounds of masking faint emission in the sky rows and refitting. */
+const EMISSION_ROUNDS = 2;
 
 const BAD = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
 
@@ -86,8 +89,25 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   if (settings.order > 0 && nSky > 0 && !(below && above)) {
     log.warn('one-sided-sky', `sky rows lie on one side of the galaxy only: the slit factor (order ${settings.order}) is extrapolated across it`, { place: { row: galaxyRegion[0], rowEnd: galaxyRegion[1] } });
   }
-  const model = fit(frame, solution, good, skyRows, settings.order, settings);
+  const use = new Uint8Array(good.length);
+  let model = fit(frame, solution, good, skyRows, settings.order, settings, 1, use);
   if (model === null) throw new StageError('sky', 'no-sky', `too few good sky pixels to fit the sky (${nSky} sky rows)`);
+  // Faint emission coherent along the slit in the sky rows: masked, and the sky fitted again. The
+  // model took up part of that emission, so the residual understates it: a few rounds.
+  let masked = 0;
+  const emissionPixels = new Uint8Array(good.length);
+  for (let round = 0; round < EMISSION_ROUNDS; round++) {
+    for (let y = 0; y < height; y++) {
+      if (!skyRows[y]) continue;
+      evaluateRow(model, solution.wave, y * width, width, y, value, null);
+      for (let x = 0, i = y * width; x < width; x++, i++) residual[i] = frame.sci[i]! - value[x]!;
+    }
+    const more = maskCoherentEmission(width, height, residual, frame.var, use, emissionPixels, skyRows, EMISSION_HALF_ROWS);
+    if (more === 0) break;
+    masked += more;
+    model = fitSkySpline({ width, height, sci: frame.sci, var: frame.var, wave: solution.wave, use }, settings.order, settings.knotSpacingPx, settings.clipSigma, 0) ?? model;
+  }
+  if (masked > 0) log.info('sky-emission', `${masked} sky-row pixels with faint line emission left out of the sky fit`, { actual: masked });
 
   // 4. Subtract; variance grows by the model's own.
   const sci = new Float32Array(width * height);
@@ -99,7 +119,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
       variance[i] = frame.var[i]! + modelVar[x]!;
     }
   }
-  const residualNormRms = normalisedResidual(width, height, sci, variance, good, skyRows);
+  const residualNormRms = normalisedResidual(width, height, sci, variance, good, emissionPixels, skyRows);
   const centreRow = Math.round((galaxyRegion[0] + galaxyRegion[1]) / 2);
   evaluateRow(model, solution.wave, centreRow * width, width, centreRow, value, null);
   const skySpectrum = Float32Array.from(value);
@@ -130,8 +150,8 @@ function checkSettings(s: SkySettings): void {
   }
 }
 
-function fit(frame: CalibratedFrame, solution: WavelengthSolution, good: Uint8Array, rows: Uint8Array, order: number, settings: SkySettings, rowStep = 1): SkySpline | null {
-  const use = new Uint8Array(good.length);
+/** Fit the sky to the good pixels of `rows`; `use` (filled here) ends as the pixels the fit kept. */
+function fit(frame: CalibratedFrame, solution: WavelengthSolution, good: Uint8Array, rows: Uint8Array, order: number, settings: SkySettings, rowStep = 1, use = new Uint8Array(good.length)): SkySpline | null {
   for (let y = 0; y < frame.height; y++) if (rows[y]) for (let x = 0, i = y * frame.width; x < frame.width; x++, i++) use[i] = good[i]!;
   return fitSkySpline({ width: frame.width, height: frame.height, sci: frame.sci, var: frame.var, wave: solution.wave, use }, order, settings.knotSpacingPx, settings.clipSigma, settings.clipIterations, rowStep);
 }
@@ -181,15 +201,15 @@ function ranges(rows: Uint8Array): [number, number][] {
   return out;
 }
 
-/** Per column: RMS over the good sky pixels of residual / sqrt(variance). */
-function normalisedResidual(width: number, height: number, sci: Float32Array, variance: Float32Array, good: Uint8Array, skyRows: Uint8Array): Float32Array {
+/** Per column: RMS of residual / sqrt(variance) over the good sky pixels, galaxy emission found in the sky rows left out. */
+function normalisedResidual(width: number, height: number, sci: Float32Array, variance: Float32Array, good: Uint8Array, emission: Uint8Array, skyRows: Uint8Array): Float32Array {
   const sum = new Float64Array(width);
   const count = new Uint32Array(width);
   for (let y = 0; y < height; y++) {
     if (!skyRows[y]) continue;
     for (let x = 0; x < width; x++) {
       const i = y * width + x;
-      if (!good[i]) continue;
+      if (!good[i] || emission[i]) continue;
       sum[x] += (sci[i]! * sci[i]!) / variance[i]!;
       count[x]++;
     }

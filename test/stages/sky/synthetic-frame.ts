@@ -9,7 +9,7 @@ import type { CalibratedFrame } from '../../../src/products/frame.js';
 import type { WavelengthSolution } from '../../../src/products/wavelength.js';
 import { SPEED_OF_LIGHT_KMS } from '../../../src/physics/constants.js';
 import { addPixelGaussian } from '../../../src/sim/erf.js';
-import { Rng } from '../../../src/sim/random.js';
+import { Rng } from '../../../src/kernels/random.js';
 
 export interface SyntheticOptions {
   width?: number;

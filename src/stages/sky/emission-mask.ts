@@ -1,0 +1,62 @@
+/**
+ * Faint line emission inside the sky rows (the outer disk beyond the detected galaxy) is too
+ * faint per pixel for the clipping, yet coherent along the slit: summed over a block of sky rows
+ * it stands out. Such pixels are left out of the sky fit so the sky model does not take up the
+ * galaxy's own lines.
+ */
+
+/** Block z above which a sky-row pixel counts as emission (common practice for a detection). */
+const Z_LIMIT = 4;
+/** A column masked in more than this fraction of the sky rows is a sky-line misfit, not emission: keep it. */
+const MAX_FRACTION = 0.5;
+
+/**
+ * residual = data - sky model. For each sky row, residuals and variances of the used pixels are
+ * summed over the sky rows within halfRows; pixels whose block z exceeds Z_LIMIT (and their two
+ * neighbours along the row) are removed from `use` and set in `emission`. Returns the number removed.
+ */
+export function maskCoherentEmission(width: number, height: number, residual: Float32Array, variance: Float32Array, use: Uint8Array, emission: Uint8Array, skyRows: Uint8Array, halfRows: number): number {
+  const sum = new Float64Array(width);
+  const vsum = new Float64Array(width);
+  const add = (y: number, sign: number): void => {
+    if (y < 0 || y >= height || !skyRows[y]) return;
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      if (!use[i]) continue;
+      sum[x] += sign * residual[i]!;
+      vsum[x] += sign * variance[i]!;
+    }
+  };
+  const marked = new Uint8Array(width * height);
+  const perColumn = new Int32Array(width);
+  let nSky = 0;
+  for (let y = 0; y < halfRows; y++) add(y, 1);
+  for (let y = 0; y < height; y++) {
+    add(y + halfRows, 1);
+    add(y - halfRows - 1, -1);
+    if (!skyRows[y]) continue;
+    nSky++;
+    for (let x = 0; x < width; x++) {
+      if (!(vsum[x]! > 0) || sum[x]! <= Z_LIMIT * Math.sqrt(vsum[x]!)) continue;
+      for (let k = Math.max(0, x - 1); k <= Math.min(width - 1, x + 1); k++) {
+        const i = y * width + k;
+        if (use[i] && !marked[i]) {
+          marked[i] = 1;
+          perColumn[k]++;
+        }
+      }
+    }
+  }
+  let removed = 0;
+  for (let x = 0; x < width; x++) {
+    if (perColumn[x]! > MAX_FRACTION * nSky) continue;
+    for (let y = 0; y < height; y++) {
+      const i = y * width + x;
+      if (marked[i]) {
+        use[i] = 0;
+        emission[i] = 1;
+        removed++;
+      }
+    }
+  }
+  return removed;
+}
