@@ -9,7 +9,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { VelocityPoint, VelocityTable } from '../products/curve.js';
 import type { LineTable } from '../products/lines.js';
-import { Rng } from '../sim/random.js';
+import { Rng } from '../kernels/random.js';
 import type { RunTruth } from '../sim/truth.js';
 import { buildRotationCurve } from '../stages/geometry/index.js';
 import type { BenchContext, BenchRow } from './types.js';

@@ -16,7 +16,7 @@ import { fitGaussianLine } from '../kernels/gaussian-fit.js';
 import { loadLampLines } from '../physics/catalogues.js';
 import { SPEED_OF_LIGHT_KMS as C } from '../physics/constants.js';
 import { flipFrameX } from '../products/orientation.js';
-import { Rng } from '../sim/random.js';
+import { Rng } from '../kernels/random.js';
 import type { RunTruth } from '../sim/truth.js';
 import { DEFAULT_ARC_SETTINGS, solveWavelengths } from '../stages/arc/index.js';
 import { buildCalibration, calibrateScience, DEFAULT_CCD_SETTINGS } from '../stages/ccd/index.js';

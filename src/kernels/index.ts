@@ -11,3 +11,4 @@ export * from './banded-ldl.js';
 export * from './combine.js';
 export * from './median-filter.js';
 export * from './laplacian.js';
+export * from './random.js';

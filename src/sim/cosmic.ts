@@ -3,7 +3,7 @@
  * Rate ~2.5 events per cm^2 per minute on 15-micron pixels (common practice for ground-based
  * CCDs, from memory); deposits of several hundred to a few thousand electrons per pixel.
  */
-import type { Rng } from './random.js';
+import type { Rng } from '../kernels/random.js';
 import type { CosmicRayTruth } from './truth.js';
 
 /** Events per pixel per second: 2.5 / cm^2 / min x (15e-4 cm)^2. */

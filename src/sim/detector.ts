@@ -4,7 +4,7 @@
  * digitisation and saturation.
  */
 import type { Orientation } from '../products/frame.js';
-import { POISSON_NORMAL_THRESHOLD, type Rng } from './random.js';
+import { POISSON_NORMAL_THRESHOLD, type Rng } from '../kernels/random.js';
 import type { CosmicRayTruth, DetectorTruth } from './truth.js';
 
 /** Fixed per-detector maps, made once per run. */

@@ -7,7 +7,7 @@ import { SPEED_OF_LIGHT_KMS } from '../physics/constants.js';
 import { GALAXY_LINES, loadLampLines, skyLines } from '../physics/catalogues.js';
 import { addContinuum, addMovingLines, addUniformLines, type MovingLine, type UniformLine } from './light.js';
 import { rowEdgeWavelengths } from './optics.js';
-import type { Rng } from './random.js';
+import type { Rng } from '../kernels/random.js';
 import { SIZES } from './scenario.js';
 import type { SimSize } from './options.js';
 import { continuumRate, halphaRate } from './targets.js';

@@ -1,7 +1,7 @@
 /** The true optics and detector of each spectral setup. */
 import type { Orientation } from '../products/frame.js';
 import type { ResolvedSimOptions } from './options.js';
-import { Rng, streamSeed } from './random.js';
+import { Rng, streamSeed } from '../kernels/random.js';
 import { SIZES } from './scenario.js';
 import type { DetectorTruth, SetupTruth } from './truth.js';
 import { trimmedSize } from './detector.js';

@@ -9,7 +9,7 @@ import { addHotColumns, digitise, makeDetectorMaps, trimmedSize } from './detect
 import { frameHeader } from './headers.js';
 import { runManifestYaml } from './manifest.js';
 import { resolveSimOptions, type SimOptions } from './options.js';
-import { Rng, streamSeed } from './random.js';
+import { Rng, streamSeed } from '../kernels/random.js';
 import { LightCache } from './light-cache.js';
 import { arcLines, lampLineFactors } from './render.js';
 import { GALAXIES, INSTRUMENT, SITE, TELESCOPE } from './scenario.js';

@@ -7,7 +7,7 @@ import { GALAXY_LINES } from '../physics/catalogues.js';
 import { SPEED_OF_LIGHT_KMS } from '../physics/constants.js';
 import type { Orientation } from '../products/frame.js';
 import { pixelOfWavelength } from './optics.js';
-import type { Rng } from './random.js';
+import type { Rng } from '../kernels/random.js';
 import type { CosmicRayTruth, ExposureTruth, SetupTruth, TargetTruth } from './truth.js';
 
 /** Electrons of a deliberate hit: well above the line core's noise. */

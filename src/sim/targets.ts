@@ -4,7 +4,7 @@ import { midExposure, parseDeclination, parseRightAscension } from '../physics/c
 import { radialVelocityCorrection } from '../physics/barycentric.js';
 import { diskCoordinates } from '../physics/disk.js';
 import type { ResolvedSimOptions } from './options.js';
-import { Rng, streamSeed } from './random.js';
+import { Rng, streamSeed } from '../kernels/random.js';
 import { GALAXIES, LINE_RATIOS, SITE, SIZES, galaxySpec } from './scenario.js';
 import { dateObsText, type FramePlan, type TargetPlan } from './schedule.js';
 import { slitOffsetArcsec, trueRotation, trueVlos, type ExposureTruth, type SetupTruth, type TargetTruth } from './truth.js';

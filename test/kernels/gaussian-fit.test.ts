@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { levenbergMarquardt as mlLevenbergMarquardt } from 'ml-levenberg-marquardt';
 import { describe, expect, it } from 'vitest';
 import { fitGaussianLine } from '../../src/kernels/gaussian-fit.js';
-import { Rng } from '../../src/sim/random.js';
+import { Rng } from '../../src/kernels/random.js';
 
 type Named = Record<string, number>;
 interface SingleCase { name: string; kind: string; x: number[]; y: number[]; sigma: number[]; initial: Named; params: Named; errors: Named }

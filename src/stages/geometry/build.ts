@@ -7,7 +7,7 @@ import { StageError } from '../../errors.js';
 import { kpcPerArcsec } from '../../physics/index.js';
 import type { StageResult } from '../../products/frame.js';
 import type { LineTable } from '../../products/lines.js';
-import type { CurvePoint, Geometry, RotationCurve, VelocityTable } from '../../products/curve.js';
+import type { Geometry, RotationCurve, VelocityTable } from '../../products/curve.js';
 import { computeDynamics } from '../dynamics/index.js';
 import { binEdgesFromData } from './bins.js';
 import { continuumPeakRow } from './continuum-peak.js';
@@ -18,9 +18,7 @@ import { placePoints, recedingSense, usable } from './place.js';
 import { resolveGeometrySettings, type GeometryInput } from './settings.js';
 import { pvSamples } from './mirror.js';
 import { fitSymmetry } from './symmetry.js';
-
-/** The number of outermost curve points averaged into vOuter. */
-const OUTER_POINTS = 3;
+import { outerVelocity } from './outer-velocity.js';
 
 export function buildRotationCurve(
   velocities: VelocityTable,
@@ -123,17 +121,4 @@ export function buildRotationCurve(
     },
     diagnostics: [...log.items, ...dyn.diagnostics],
   };
-}
-
-/** Weighted mean (by err_total) of the outermost points, and its error. */
-function outerVelocity(points: CurvePoint[]): { v: number; err: number } {
-  const outer = [...points].sort((a, b) => a.rArcsec - b.rArcsec).slice(-OUTER_POINTS);
-  let sw = 0;
-  let swv = 0;
-  for (const p of outer) {
-    const w = 1 / (p.errTotal * p.errTotal);
-    sw += w;
-    swv += w * p.vRot;
-  }
-  return { v: swv / sw, err: 1 / Math.sqrt(sw) };
 }

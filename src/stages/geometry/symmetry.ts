@@ -9,7 +9,7 @@
  * the interpolation) all misjudge the error; the bootstrap lets the minimum hop between bumps
  * as the estimate itself does.
  */
-import { Rng } from '../../sim/random.js';
+import { Rng } from '../../kernels/random.js';
 import { dropAsymmetricPoints, foldChiSquare, type FoldChiSquare, type PvSamples } from './mirror.js';
 
 export interface SymmetryOptions {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { evalLegendre1D } from '../../../src/kernels/legendre.js';
 import { fitLegendre1D } from '../../../src/kernels/legendre-fit.js';
-import { Rng } from '../../../src/sim/random.js';
+import { Rng } from '../../../src/kernels/random.js';
 import { pruneToErrors } from '../../../src/stages/arc/prune.js';
 
 // lambda(x) of the simulator's small red setup (src/sim/setups.ts): a cubic Legendre series

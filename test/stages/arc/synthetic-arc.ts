@@ -12,7 +12,7 @@ import { resolveSimOptions, type SimSize } from '../../../src/sim/options.js';
 import { makeDetector, makeSetup } from '../../../src/sim/setups.js';
 import { lineShiftPx, type SetupTruth } from '../../../src/sim/truth.js';
 import { evalLegendre1D } from '../../../src/kernels/legendre.js';
-import { Rng } from '../../../src/sim/random.js';
+import { Rng } from '../../../src/kernels/random.js';
 import { DEFAULT_ARC_SETTINGS, type ArcSettings } from '../../../src/stages/arc/index.js';
 import type { WavelengthSolution } from '../../../src/products/wavelength.js';
 

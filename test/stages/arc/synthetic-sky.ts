@@ -9,7 +9,7 @@ import type { CalibratedFrame } from '../../../src/products/frame.js';
 import { addPixelGaussian } from '../../../src/sim/erf.js';
 import { addUniformLines } from '../../../src/sim/light.js';
 import { pixelOfWavelength } from '../../../src/sim/optics.js';
-import { Rng } from '../../../src/sim/random.js';
+import { Rng } from '../../../src/kernels/random.js';
 import { trueLsfSigmaPx, type SetupTruth } from '../../../src/sim/truth.js';
 
 export interface SyntheticSkyOptions {

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { fitGroup } from '../../../src/stages/lines/fit-group.js';
 import { groupSpecs } from '../../../src/stages/lines/group-spec.js';
-import { Rng } from '../../../src/sim/random.js';
+import { Rng } from '../../../src/kernels/random.js';
 
 type Named = Record<string, number>;
 interface GroupCase { kind: string; wavelength: number[]; pixelWidth: number[]; y: number[]; sigma: number[]; initial: Named; params: Named; errors: Named }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { InputError, StageError } from '../../../src/errors.js';
 import { LINE_FLAGS } from '../../../src/products/lines.js';
-import { Rng } from '../../../src/sim/random.js';
+import { Rng } from '../../../src/kernels/random.js';
 import { computeVelocities } from '../../../src/stages/velocity/compute.js';
 import { DEFAULT_VELOCITY_SETTINGS, type VelocitySettings } from '../../../src/stages/velocity/settings.js';
 import { bins, C_KMS, frameFor, lineTable, measurement, observedWavelength, sequence, weightedCorrection } from './synthetic.js';

@@ -1,5 +1,5 @@
 /**
- * A small, fast seeded random generator for the simulator: xoshiro128** (Blackman & Vigna 2018)
+ * A small, fast seeded random generator (simulator, bootstrap errors, tests): xoshiro128** (Blackman & Vigna 2018)
  * seeded through splitmix32, with uniform, normal (ziggurat) and Poisson draws.
  * Every frame gets its own stream (`streamSeed`), so a frame does not depend on the order in
  * which the others were made.

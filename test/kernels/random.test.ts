@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { POISSON_NORMAL_THRESHOLD, Rng, streamSeed } from '../../src/sim/random.js';
-import { REFERENCE } from './reference.js';
+import { POISSON_NORMAL_THRESHOLD, Rng, streamSeed } from '../../src/kernels/random.js';
+import { REFERENCE } from '../sim/reference.js';
 
 /** Pearson chi-square of counts against a pmf, pooling bins with < 5 expected. */
 function chiSquare(counts: number[], pmf: number[], n: number): { chi2: number; dof: number } {

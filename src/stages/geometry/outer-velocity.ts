@@ -1,0 +1,22 @@
+import type { CurvePoint } from '../../products/curve.js';
+
+/** The number of outermost curve points averaged into vOuter. */
+export const OUTER_POINTS = 3;
+
+/**
+ * Weighted mean (by err_total) of the outermost points, and its error. Points seen on both sides
+ * are preferred: a lone one-sided end bin is the faintest and least checked part of the curve.
+ */
+export function outerVelocity(points: CurvePoint[]): { v: number; err: number } {
+  const twoSided = points.filter((p) => !p.oneSided && Number.isFinite(p.vRot));
+  const pool = twoSided.length >= OUTER_POINTS ? twoSided : points;
+  const outer = [...pool].sort((a, b) => a.rArcsec - b.rArcsec).slice(-OUTER_POINTS);
+  let sw = 0;
+  let swv = 0;
+  for (const p of outer) {
+    const w = 1 / (p.errTotal * p.errTotal);
+    sw += w;
+    swv += w * p.vRot;
+  }
+  return { v: swv / sw, err: 1 / Math.sqrt(sw) };
+}
