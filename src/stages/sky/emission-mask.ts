@@ -47,15 +47,13 @@ export function maskCoherentEmission(width: number, height: number, residual: Fl
     }
   }
   let removed = 0;
-  for (let x = 0; x < width; x++) {
-    if (perColumn[x]! > MAX_FRACTION * nSky) continue;
-    for (let y = 0; y < height; y++) {
-      const i = y * width + x;
-      if (marked[i]) {
-        use[i] = 0;
-        emission[i] = 1;
-        removed++;
-      }
+  for (let y = 0; y < height; y++) {
+    if (!skyRows[y]) continue;
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      if (!marked[i] || perColumn[x]! > MAX_FRACTION * nSky) continue;
+      use[i] = 0;
+      emission[i] = 1;
+      removed++;
     }
   }
   return removed;

@@ -165,7 +165,8 @@ function fitSlit(input: SkyFitInput, fit: SkySpline, order: number): void {
   const rows: number[] = [];
   const values: number[] = [];
   const b = new Float64Array(4);
-  for (let y = 0; y < height; y += 2) {
+  // Every fourth row: g is smooth along the slit and each row's median is already precise.
+  for (let y = 0; y < height; y += 4) {
     let n = 0;
     for (let x = 0; x < width; x++) {
       const i = y * width + x;
