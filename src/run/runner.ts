@@ -53,7 +53,7 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
 
   const code = codeFingerprint();
   const hashes = new Map<string, string>();
-  const hashOf = (p: string) => hashes.get(p) ?? (hashes.set(p, sha256File(p)), hashes.get(p)!);
+  const hashOf = (p: string) => hashes.get(p) ?? (hashes.set(p, hashInput(p)), hashes.get(p)!);
   const rel = (p: string) => manifestRelative(run.baseDir, p);
   const setupInputs = (s: ResolvedSetup): InputFile[] => [
     ...s.bias.map((f) => ({ role: 'bias' as const, file: rel(f), sha256: hashOf(f) })),
@@ -159,6 +159,15 @@ export function selectTargets(targets: readonly ResolvedTarget[], only?: readonl
     }
   }
   return targets.filter((t) => only.includes(t.name) || only.includes(t.folder));
+}
+
+/** sha256 of an input; a file that vanished since the manifest was read is the user's to fix. */
+function hashInput(path: string): string {
+  try {
+    return sha256File(path);
+  } catch (e) {
+    throw new InputError('run.unreadable-input', `cannot read the input file (${(e as NodeJS.ErrnoException).code ?? String(e)})`, { file: path });
+  }
 }
 
 function notRun(t: ResolvedTarget): SummaryEntry {
