@@ -172,8 +172,10 @@ export function levenbergMarquardt(
         jt = tj;
         chi2 = chi2Trial;
         normalEquations(jac, y, f, weights, m, n, a, g);
+        // A small decrease counts as convergence only near the Gauss-Newton regime: under heavy
+        // damping a step is a short gradient step whose small decrease says little.
+        if (relative < relTolerance && lambda <= 1) converged = true;
         lambda = Math.max(lambda / 10, MIN_DAMPING);
-        if (relative < relTolerance) converged = true;
       } else {
         lambda *= 10;
         if (lambda > MAX_DAMPING) converged = true;
