@@ -133,6 +133,13 @@ export function parseHeader(bytes: Uint8Array, offset: number, place: ErrorPlace
     for (let i = pos; i < pos + CARD_BYTES; i++) {
       const b = bytes[i]!;
       if (b < 0x20 || b > 0x7e) {
+        // A block after the first whose first card holds binary bytes is the data unit: the header lacked END.
+        if (pos > offset && (pos - offset) % BLOCK_BYTES === 0) {
+          throw new InputError('fits.no-end', 'header has no END card', { ...place, offset }, {
+            expected: `an END card in the ${(pos - offset) / BLOCK_BYTES} header block(s) before byte ${pos}`,
+            actual: `${cards.length} cards, then bytes that are not ASCII text (data?) at byte ${pos}`,
+          });
+        }
         throw new InputError('fits.non-ascii-header', 'header contains a byte that is not printable ASCII', { ...place, offset: i }, {
           expected: 'ASCII characters 32-126 in header cards',
           actual: `byte 0x${b.toString(16).padStart(2, '0')}`,

@@ -72,6 +72,18 @@ describe('malformed FITS input', () => {
     expect(e.place).toMatchObject({ file: 'noend.fits', hdu: 0, offset: 0 });
   });
 
+  it('a header without END followed by its data says END is missing, not that the data bytes are not ASCII', () => {
+    // FITS 4.0 section 4.4.1: the header ends with END; here the int16 data (big-endian 1000 = 0x03 0xe8) follows at once.
+    const header = ['SIMPLE  =                    T', 'BITPIX  =                   16', 'NAXIS   =                    1', 'NAXIS1  =                    4'].map((c) => c.padEnd(80)).join('').padEnd(2880);
+    const bytes = new Uint8Array(5760);
+    bytes.set(new TextEncoder().encode(header));
+    for (let k = 0; k < 4; k++) bytes.set([0x03, 0xe8], 2880 + 2 * k);
+    const e = inputError(() => parseFits(bytes, 'noend-data.fits'));
+    expect(e.code).toBe('fits.no-end');
+    expect(e.place).toMatchObject({ file: 'noend-data.fits', hdu: 0, offset: 0 });
+    expect(e.message).toMatch(/no END card .*found 36 cards, then bytes that are not ASCII text \(data\?\) at byte 2880/);
+  });
+
   it('an invalid BITPIX', () => {
     const bad = withCard(good, 'BITPIX', 'BITPIX  =                   17', 2880);
     const e = inputError(() => parseFits(bad, 'bitpix.fits', { checksum: 'skip' }));
