@@ -3,8 +3,8 @@
  * group them into setups and targets, and write a draft run manifest (printed when --out is not
  * given). Unreadable files are listed and skipped.
  */
-import { existsSync, readFileSync, writeFileSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
+import { mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join, resolve } from 'node:path';
 import type { Command } from 'commander';
 import { EXIT, InputError } from '../../errors.js';
 import { classifyFrame } from '../../run/inventory/classify.js';
@@ -47,6 +47,31 @@ function readRules(path: string | undefined) {
   return parseRulesYaml(text, path);
 }
 
+/** The --out path must be a new file (or, with --force, an existing file): checked before the scan. */
+function checkOutFile(path: string, force: boolean): void {
+  let stat;
+  try {
+    stat = statSync(path, { throwIfNoEntry: false });
+  } catch {
+    throw new InputError('inventory.out-unwritable', 'cannot write the draft there', { file: path }, { expected: 'a file path whose parent folders are folders' });
+  }
+  if (stat?.isDirectory()) throw new InputError('inventory.out-is-folder', 'is a folder', { file: path }, { expected: 'a file name for the draft manifest' });
+  if (stat && !force) throw new InputError('inventory.out-exists', 'file exists; pass --force to overwrite it', { file: path }, { expected: 'a new file name' });
+}
+
+/** Write the draft beside its final name and rename it: the file is whole or absent; missing folders are made. */
+function writeDraft(path: string, text: string): void {
+  const temp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
+  try {
+    mkdirSync(dirname(path), { recursive: true });
+    writeFileSync(temp, text);
+    renameSync(temp, path);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code ?? 'unknown';
+    throw new InputError('inventory.out-unwritable', `cannot write the draft (${code})`, { file: path }, { expected: 'a writable file path' });
+  }
+}
+
 export const registerInventory: CommandRegistrar = (program: Command, io: CliIo, setExit) => {
   program
     .command('inventory')
@@ -58,9 +83,7 @@ export const registerInventory: CommandRegistrar = (program: Command, io: CliIo,
     .addHelpText('after', `\nRules file (every key optional; lists extend the built-in ones):\n${RULES_FORMAT}`)
     .action((dir: string, flags: InventoryFlags) => {
       const rules = readRules(flags.rules);
-      if (flags.out && existsSync(flags.out) && !flags.force) {
-        throw new InputError('inventory.out-exists', 'file exists; pass --force to overwrite it', { file: flags.out }, { expected: 'a new file name' });
-      }
+      if (flags.out) checkOutFile(flags.out, Boolean(flags.force));
       const scanned = scanDirectory(dir);
       if (scanned.frames.length === 0) {
         throw new InputError('inventory.empty', 'no readable FITS frames found', { file: dir }, { expected: 'files named *.fits, *.fit, *.fts (optionally .gz or .fz)', actual: `${scanned.unreadable.length} unreadable` });
@@ -68,7 +91,7 @@ export const registerInventory: CommandRegistrar = (program: Command, io: CliIo,
       const inv = buildInventory(scanned.frames.map((f) => classifyFrame(f, rules)), scanned.unreadable, rules);
       const text = draftManifestYaml(inv, dir, resolve(flags.out ? dirname(flags.out) : '.'));
       if (flags.out) {
-        writeFileSync(flags.out, text);
+        writeDraft(flags.out, text);
         io.out(summary(inv));
         io.out(`wrote ${flags.out}: fill in the values marked FILL IN, then run whorl reduce ${flags.out}\n`);
       } else {

@@ -83,6 +83,20 @@ describe('inventory of a simulated night', () => {
     expect(await main(['node', 'whorl', 'inventory', raw, '--out', out, '--force'], memoryIo())).toBe(0);
   });
 
+  it('whorl inventory --out makes missing folders, and a folder or a file in the way exits 2 naming it', async () => {
+    const nested = join(dir, 'drafts', 'night1', 'run.yaml');
+    expect(await main(['node', 'whorl', 'inventory', raw, '--out', nested], memoryIo())).toBe(0);
+    expect(readFileSync(nested, 'utf8')).toBe(draftManifestYaml(inv, raw, join(dir, 'drafts', 'night1')));
+    const blocker = join(dir, 'a-file');
+    writeFileSync(blocker, 'x\n');
+    for (const [out, words] of [[join(dir, 'drafts'), /drafts: is a folder/], [join(blocker, 'run.yaml'), /a-file\/run\.yaml: cannot write the draft/]] as const) {
+      const io = memoryIo();
+      expect(await main(['node', 'whorl', 'inventory', raw, '--out', out, '--force'], io)).toBe(2);
+      expect(io.stderr).toMatch(words);
+      expect(io.stderr).not.toMatch(/internal error|\n\s+at /);
+    }
+  });
+
   it('whorl inventory on a missing folder exits 2 naming it', async () => {
     const io = memoryIo();
     expect(await main(['node', 'whorl', 'inventory', join(dir, 'nope')], io)).toBe(2);
