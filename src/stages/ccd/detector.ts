@@ -47,7 +47,7 @@ export function resolveDetector(frame: RawFrame, settings: CcdSettings): Detecto
     ? null
     : parseSection(biasText, frame.width, frame.height, { file: frame.path, hdu: frame.hdu, key: settings.biasSection !== undefined ? 'biassec' : 'BIASSEC' });
   if (overscan && sectionsOverlap(overscan, data)) {
-    throw new InputError('ccd.section-overlap', `overscan ${formatSection(overscan)} overlaps the data section ${formatSection(data)}`, { file: frame.path, hdu: frame.hdu, key: 'BIASSEC' }, { expected: 'separate overscan and data sections' });
+    throw new InputError('ccd.section-overlap', `overscan ${formatSection(overscan)} overlaps the data section ${formatSection(data)}`, { file: frame.path, hdu: frame.hdu, key: settings.biasSection !== undefined ? 'biassec' : 'BIASSEC' }, { expected: 'separate overscan and data sections' });
   }
   return { gain, readNoiseE, saturationAdu, overscan, data, binning: binningOf(frame) };
 }

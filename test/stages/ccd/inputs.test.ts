@@ -54,6 +54,14 @@ describe('calibration inputs', () => {
     expect(e.code).toBe('ccd.section-outside');
     expect(e.place.key).toBe('DATASEC');
   });
+  it('an overscan that overlaps the data names the key it came from: manifest biassec, else header BIASSEC', () => {
+    const e = caught(() => buildCalibration(calibrationFrames(), { ...DEFAULT_CCD_SETTINGS, biasSection: '[1:8,1:30]' }));
+    expect(e.code).toBe('ccd.section-overlap');
+    expect(e.place).toMatchObject({ file: 'raw/b1.fits', key: 'biassec' });
+    const h = caught(() => buildCalibration(calibrationFrames({ datasec: '[1:44,1:30]' }), DEFAULT_CCD_SETTINGS));
+    expect(h.code).toBe('ccd.section-overlap');
+    expect(h.place.key).toBe('BIASSEC');
+  });
   it('no arc frames is an error', () => {
     expect(caught(() => buildCalibration({ ...calibrationFrames(), arc: [] }, DEFAULT_CCD_SETTINGS)).code).toBe('ccd.no-arc');
   });
