@@ -1,4 +1,4 @@
-import { readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync, truncateSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../../src/cli/main.js';
@@ -49,6 +49,15 @@ describe('whorl reduce', () => {
     const again = await whorl('reduce', join(dir, 'run.yaml'), '--jobs', '1', '--quiet');
     expect(again.code).toBe(0);
     expect(again.out + again.err).toBe('');
+  });
+
+  it('exits 3 when a target fails, naming it and the reason', async () => {
+    const dir = copyOfSimulatedRun(ONE, 'cli-fail');
+    truncateSync(join(dir, 'raw', 'sci_002.fits'), 4000);
+    const r = await whorl('reduce', join(dir, 'run.yaml'), '--jobs', '1');
+    expect(r.code).toBe(3);
+    expect(r.out).toMatch(/Halden Spiral\s+FAILED\s+.*sci_002\.fits/);
+    expect(r.err).toMatch(/\[1\/1\] Halden Spiral: FAILED: .*sci_002\.fits/);
   });
 
   it('--json prints one parseable event per line, ending with run-done', async () => {
