@@ -46,7 +46,7 @@ export interface SummaryEntry {
 
 export interface RunSummary {
   whorlVersion: string;
-  /** Manifest file name (relative to the output folder's parent is not assumed; base name only). */
+  /** Base name of the manifest file (no folder, so the summary does not depend on where the run sits). */
   manifest: string;
   counts: { ok: number; failed: number; notRun: number };
   targets: SummaryEntry[];
