@@ -12,3 +12,4 @@ export * from './combine.js';
 export * from './median-filter.js';
 export * from './laplacian.js';
 export * from './random.js';
+export * from './chi2-scale.js';

@@ -7,6 +7,7 @@
  */
 import { DiagnosticLog } from '../../diagnostics.js';
 import { InputError } from '../../errors.js';
+import { chi2ErrorScale, chi2NoiseLimit } from '../../kernels/chi2-scale.js';
 import { fitGaussianLine } from '../../kernels/gaussian-fit.js';
 import { evalLegendre2D, legendre2DStepX } from '../../kernels/legendre.js';
 import { SPEED_OF_LIGHT_KMS } from '../../physics/constants.js';
@@ -85,6 +86,7 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
   }
   const log = new DiagnosticLog('arc');
   const file = science.exposures[0]?.path;
+  const place = file ? { file } : {};
   const { width, height } = science;
   const yMid = (height - 1) / 2;
   const xMid = (width - 1) / 2;
@@ -124,7 +126,7 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
   let shift = 0;
   let shiftErr = NaN;
   if (usable.length === 0) {
-    log.warn('no-sky-lines', `no usable night-sky line (${candidates.length} in range, ${nSky} sky rows): flexure not corrected (shift 0)`, { place: file ? { file } : {} });
+    log.warn('no-sky-lines', `no usable night-sky line (${candidates.length} in range, ${nSky} sky rows): flexure not corrected (shift 0)`, { place });
   } else {
     let sw = 0;
     let swx = 0;
@@ -138,17 +140,16 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
     let chi2 = 0;
     for (const l of usable) chi2 += ((l.wavelength - l.measured - shift) / l.error) ** 2;
     const dof = usable.length - 1;
-    // common practice: more than 3 sigma above the chi-square mean dof (sd sqrt(2 dof))
-    if (dof > 0 && chi2 > dof + 3 * Math.sqrt(2 * dof)) {
-      shiftErr *= Math.sqrt(chi2 / dof);
-      log.warn('flexure-disagree', `the ${usable.length} sky lines disagree about the shift beyond their errors (chi2 ${chi2.toFixed(1)} for ${dof} dof); error scaled by sqrt(chi2/dof)`, { place: file ? { file } : {}, expected: `chi2 <= ${(dof + 3 * Math.sqrt(2 * dof)).toFixed(1)}`, actual: chi2.toFixed(1) });
+    const scale = chi2ErrorScale(chi2, dof);
+    if (scale > 1) {
+      shiftErr *= scale;
+      log.warn('flexure-disagree', `the ${usable.length} sky lines disagree about the shift beyond their errors (chi2 ${chi2.toFixed(1)} for ${dof} dof); error scaled by sqrt(chi2/dof)`, { place, expected: `chi2 <= ${chi2NoiseLimit(dof).toFixed(1)}`, actual: chi2.toFixed(1) });
     }
-    const kms = (shift / lambdaMid) * SPEED_OF_LIGHT_KMS;
-    const summary = `sky-line shift ${shift.toFixed(4)} +- ${shiftErr.toFixed(4)} A (${kms.toFixed(2)} km/s, ${(shift / dispersion).toFixed(3)} px) from ${usable.length} lines in ${nSky} sky rows; applied`;
+    const summary = `sky-line shift ${shift.toFixed(4)} +- ${shiftErr.toFixed(4)} A (${((shift / lambdaMid) * SPEED_OF_LIGHT_KMS).toFixed(2)} km/s, ${(shift / dispersion).toFixed(3)} px) from ${usable.length} lines in ${nSky} sky rows; applied`;
     // the sky lines disagree with the arc beyond their errors: the correction matters, say so
-    if (Math.abs(shift) > SIGNIFICANT_SIGMAS * shiftErr) log.warn('flexure', `the night-sky lines disagree with the arc solution by ${(Math.abs(shift) / shiftErr).toFixed(1)} sigma: ${summary}`, { place: file ? { file } : {}, expected: '0 A', actual: `${shift.toFixed(4)} +- ${shiftErr.toFixed(4)} A` });
-    else log.info('flexure', summary, { place: file ? { file } : {} });
-    if (Math.abs(shift) > 2 * Math.abs(dispersion)) log.warn('large-flexure', `the sky lines are ${(shift / dispersion).toFixed(2)} px off the arc solution: more than the usual 0.1-2 px of flexure (common practice); check that the arc belongs to this setup`, { place: file ? { file } : {} });
+    if (Math.abs(shift) > SIGNIFICANT_SIGMAS * shiftErr) log.warn('flexure', `the night-sky lines disagree with the arc solution by ${(Math.abs(shift) / shiftErr).toFixed(1)} sigma: ${summary}`, { place, expected: '0 A', actual: `${shift.toFixed(4)} +- ${shiftErr.toFixed(4)} A` });
+    else log.info('flexure', summary, { place });
+    if (Math.abs(shift) > 2 * Math.abs(dispersion)) log.warn('large-flexure', `the sky lines are ${(shift / dispersion).toFixed(2)} px off the arc solution: more than the usual 0.1-2 px of flexure (common practice); check that the arc belongs to this setup`, { place });
   }
   const wave = new Float64Array(solution.wave.length);
   for (let i = 0; i < wave.length; i++) wave[i] = solution.wave[i]! + shift;

@@ -3,6 +3,7 @@
  * bounds on the centre (velocity tolerance), width (instrumental to maximum dispersion) and
  * fluxes (>= 0), errors from (J^T W J)^-1 at the solution.
  */
+import { chi2ErrorScale } from '../../kernels/chi2-scale.js';
 import { levenbergMarquardt } from '../../kernels/levenberg-marquardt.js';
 import { GroupModel, type GroupSpec } from './group-model.js';
 
@@ -81,7 +82,7 @@ export function fitGroup(win: Window, spec: GroupSpec, guess: GroupGuess, option
   }
   start[model.c0Index] = guess.c0;
   const r = levenbergMarquardt(model, win.wave, win.data, win.weight, start, { lower, upper, maxIterations: MAX_ITERATIONS, relTolerance: REL_TOLERANCE });
-  const scale = options.scaleByChi2 ? chi2Scale(r.chi2, r.dof) : 1;
+  const scale = options.scaleByChi2 ? chi2ErrorScale(r.chi2, r.dof) : 1;
   const err = (k: number): number => Math.sqrt(r.covariance[k * n + k]!) * scale;
   const flux: number[] = [];
   const fluxErr: number[] = [];
@@ -108,14 +109,4 @@ export function fitGroup(win: Window, spec: GroupSpec, guess: GroupGuess, option
     fluxAtBound,
     model: out,
   };
-}
-
-/**
- * sqrt(chi2/dof) when chi2/dof exceeds its 3-sigma noise range 1 + 3 sqrt(2/dof) (a misfit the
- * errors should admit), else 1: scaling by every upward fluctuation would inflate honest errors.
- */
-export function chi2Scale(chi2: number, dof: number): number {
-  if (!(dof > 0)) return 1;
-  const reduced = chi2 / dof;
-  return reduced > 1 + 3 * Math.sqrt(2 / dof) ? Math.sqrt(reduced) : 1;
 }
