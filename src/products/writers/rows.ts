@@ -32,7 +32,7 @@ export function rowMapping(orientation: Orientation, internalWidth: number): Row
 }
 
 /** Bit meanings of the flags column, for the file headers (LINE_FLAGS in products/lines.ts). */
-export function flagLegend(): string {
+function flagLegend(): string {
   return Object.entries(LINE_FLAGS).map(([name, bit]) => `${bit} ${name}`).join(', ');
 }
 

@@ -6,7 +6,7 @@ import { evalLegendre2D, type Legendre2D } from '../../kernels/legendre.js';
 const WARN_FRACTION = 0.1;
 
 /** Pixels of the row y beyond the identified range on each side: [blue side, red side]. */
-export function extrapolatedPixels(model: Legendre2D, width: number, y: number, identified: [number, number]): [number, number] {
+function extrapolatedPixels(model: Legendre2D, width: number, y: number, identified: [number, number]): [number, number] {
   let blue = 0;
   let red = 0;
   for (let x = 0; x < width; x++) {

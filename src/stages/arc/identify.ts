@@ -21,7 +21,7 @@ export interface Identification {
 }
 
 /** Lines inside the widest wavelength range the search allows. */
-export function linesInSearchRange(lines: LampLine[], width: number, settings: ArcSettings): LampLine[] {
+function linesInSearchRange(lines: LampLine[], width: number, settings: ArcSettings): LampLine[] {
   const half = ((width - 1) / 2) * settings.approxDispersion * (1 + settings.dispersionSearch) + settings.centreSearchAngstrom;
   return lines.filter((l) => Math.abs(l.wavelength - settings.approxWavelength) <= half).sort((a, b) => a.wavelength - b.wavelength);
 }
@@ -30,7 +30,7 @@ export function linesInSearchRange(lines: LampLine[], width: number, settings: A
  * Lines without a comparable neighbour closer than blendSigma line sigmas: a blend moves the
  * centroid. A neighbour fainter than a tenth does not count (common practice).
  */
-export function unblendedLines(lines: LampLine[], blendAngstrom: number): LampLine[] {
+function unblendedLines(lines: LampLine[], blendAngstrom: number): LampLine[] {
   return lines.filter((l, i) => {
     for (const j of [i - 1, i + 1, i - 2, i + 2]) {
       const m = lines[j];

@@ -6,7 +6,7 @@
  */
 import { fitLegendre1D, fitLegendre2D } from '../../kernels/legendre-fit.js';
 
-export function bic(wrss: number, n: number, k: number): number {
+function bic(wrss: number, n: number, k: number): number {
   return n * Math.log(wrss / n) + k * Math.log(n);
 }
 

@@ -10,7 +10,7 @@ import type { CalibratedFrame } from '../../products/frame.js';
 const MAX_COLUMNS = 512;
 
 /** Median over (sampled, unmasked) columns of each row, electrons per pixel. */
-export function rowLevels(frame: CalibratedFrame): Float64Array {
+function rowLevels(frame: CalibratedFrame): Float64Array {
   const { width, height } = frame;
   const step = Math.max(1, Math.floor(width / MAX_COLUMNS));
   const buf = new Float64Array(Math.ceil(width / step));
