@@ -17,6 +17,7 @@ export function toInternal<T extends PixelArray>(raw: T, rawWidth: number, rawHe
   checkSize(raw, rawWidth, rawHeight);
   const width = o.transpose ? rawHeight : rawWidth;
   const height = o.transpose ? rawWidth : rawHeight;
+  if (!o.transpose && !o.flipX) return { data: raw.slice() as T, width, height }; // the usual case: one block copy
   const out = new (raw.constructor as new (n: number) => T)(raw.length);
   for (let y = 0; y < height; y++) {
     const row = y * width;
@@ -33,6 +34,7 @@ export function toRaw<T extends PixelArray>(internal: T, width: number, height: 
   checkSize(internal, width, height);
   const rawWidth = o.transpose ? height : width;
   const rawHeight = o.transpose ? width : height;
+  if (!o.transpose && !o.flipX) return { data: internal.slice() as T, width: rawWidth, height: rawHeight };
   const out = new (internal.constructor as new (n: number) => T)(internal.length);
   for (let y = 0; y < height; y++) {
     const row = y * width;

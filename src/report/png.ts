@@ -3,6 +3,7 @@
  * the 2-D spectrum as a data URI without a dependency.
  */
 import { deflateSync } from 'node:zlib';
+import { selectInPlace } from '../kernels/robust.js';
 
 const CRC_TABLE = (() => {
   const t = new Uint32Array(256);
@@ -62,11 +63,16 @@ export function encodeGreyPng(grey: Uint8Array, width: number, height: number): 
  * values (a display choice, common practice for emission-line spectra), inverted so lines are dark.
  */
 export function stretchToGrey(data: Float32Array): Uint8Array {
-  const finite = Float32Array.from(data.filter((v) => Number.isFinite(v))).sort();
+  const finite = new Float32Array(data.length);
+  let count = 0;
+  for (let i = 0; i < data.length; i++) if (Number.isFinite(data[i]!)) finite[count++] = data[i]!;
   const grey = new Uint8Array(data.length);
-  if (finite.length === 0) return grey.fill(255);
-  const lo = finite[Math.floor(0.01 * (finite.length - 1))]!;
-  const hi = finite[Math.floor(0.995 * (finite.length - 1))]!;
+  if (count === 0) return grey.fill(255);
+  // Two order statistics by selection (the values a full sort would put there), the higher first:
+  // selecting it leaves everything below it in front, where the lower one is then selected.
+  const kHi = Math.floor(0.995 * (count - 1));
+  const hi = selectInPlace(finite, count, kHi);
+  const lo = selectInPlace(finite, kHi + 1, Math.floor(0.01 * (count - 1)));
   const span = hi > lo ? hi - lo : 1;
   const soft = 0.05;
   const norm = Math.asinh(1 / soft);

@@ -3,7 +3,13 @@ import { LINE_FLAGS } from '../../products/lines.js';
 import type { TargetReportInput } from '../types.js';
 import { missing, section } from './section.js';
 
-const round = (v: number, digits: number) => (Number.isFinite(v) ? Number(v.toFixed(digits)) : null);
+const SCALES = [1, 10, 100, 1000];
+/** v to `digits` decimals (0-3), halves away from zero like toFixed, without the string round trip (thousands of values per page). */
+const round = (v: number, digits: number) => {
+  if (!Number.isFinite(v)) return null;
+  const f = SCALES[digits]!;
+  return v < 0 ? -Math.round(-v * f) / f : Math.round(v * f) / f;
+};
 
 function flagNames(flags: number): string[] {
   return Object.entries(LINE_FLAGS)

@@ -41,12 +41,21 @@ export function findBadColumns(
   return { columns, reasons: columns.map((x) => flagged.get(x)!) };
 }
 
-function columnMedians(image: Float32Array, width: number, height: number): Float64Array {
+/** Columns copied out together: one pass down the image per block instead of one strided pass per column. */
+const COLUMN_BLOCK = 32;
+
+/** The median of each column of a width x height image (NaN ignored). */
+export function columnMedians(image: Float32Array, width: number, height: number): Float64Array {
   const out = new Float64Array(width);
-  const column = new Float64Array(height);
-  for (let x = 0; x < width; x++) {
-    for (let y = 0; y < height; y++) column[y] = image[y * width + x]!;
-    out[x] = median(column, column);
+  const block = new Float64Array(COLUMN_BLOCK * height);
+  const scratch = new Float64Array(height);
+  for (let x0 = 0; x0 < width; x0 += COLUMN_BLOCK) {
+    const nb = Math.min(COLUMN_BLOCK, width - x0);
+    for (let y = 0; y < height; y++) {
+      const from = y * width + x0;
+      for (let c = 0; c < nb; c++) block[c * height + y] = image[from + c]!;
+    }
+    for (let c = 0; c < nb; c++) out[x0 + c] = median(block.subarray(c * height, (c + 1) * height), scratch);
   }
   return out;
 }

@@ -10,6 +10,7 @@ import { fitLegendre1D } from '../../kernels/legendre-fit.js';
 import { evalLegendre1D } from '../../kernels/legendre.js';
 import { median } from '../../kernels/robust.js';
 import { MASK_BITS } from '../../products/frame.js';
+import { columnMedians } from './bad-columns.js';
 import { sampledMedian } from './level.js';
 import { RowLegendreFitter } from './row-fit.js';
 import type { CcdSettings } from './settings.js';
@@ -155,16 +156,9 @@ function rowUsable(mask: Uint16Array, y: number, width: number, bits: number, us
  */
 function markUnlit(combined: Float32Array, width: number, height: number, fraction: number, mask: Uint16Array): void {
   const rows = new Float64Array(height);
-  const cols = new Float64Array(width);
-  const line = new Float64Array(Math.max(width, height));
-  for (let y = 0; y < height; y++) {
-    for (let x = 0; x < width; x++) line[x] = combined[y * width + x]!;
-    rows[y] = median(line.subarray(0, width));
-  }
-  for (let x = 0; x < width; x++) {
-    for (let y = 0; y < height; y++) line[y] = combined[y * width + x]!;
-    cols[x] = median(line.subarray(0, height));
-  }
+  const scratch = new Float64Array(width);
+  for (let y = 0; y < height; y++) rows[y] = median(combined.subarray(y * width, (y + 1) * width), scratch);
+  const cols = columnMedians(combined, width, height);
   const rowLimit = fraction * median(rows);
   const colLimit = fraction * median(cols);
   for (let y = 0; y < height; y++) {

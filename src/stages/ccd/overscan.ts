@@ -40,13 +40,21 @@ export function trimFrame(frame: RawFrame, det: Detector, overscanOrder: number,
   for (let y = 0; y < height; y++) {
     const from = (y + s.y0) * frame.width + s.x0;
     const to = y * width;
+    // One pass per line: level subtracted and saturation marked together.
     if (byColumn) {
-      for (let x = 0; x < width; x++) out[to + x] = src[from + x]! - byColumn[x]!;
+      for (let x = 0; x < width; x++) {
+        const v = src[from + x]!;
+        out[to + x] = v - byColumn[x]!;
+        if (withMask && v >= sat) mask[to + x] = MASK_BITS.saturated;
+      }
     } else {
       const rowLevel = level.along === 'y' ? level.values[y + s.y0]! : 0;
-      for (let x = 0; x < width; x++) out[to + x] = src[from + x]! - rowLevel;
+      for (let x = 0; x < width; x++) {
+        const v = src[from + x]!;
+        out[to + x] = v - rowLevel;
+        if (withMask && v >= sat) mask[to + x] = MASK_BITS.saturated;
+      }
     }
-    if (withMask) for (let x = 0; x < width; x++) if (src[from + x]! >= sat) mask[to + x] = MASK_BITS.saturated;
   }
   return { width, height, data: out, mask, overscanModel: level.model, overscanRmsAdu: level.rms, overscanAlong: level.along };
 }

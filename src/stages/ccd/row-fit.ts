@@ -16,6 +16,8 @@ export interface RowFitOptions {
 export class RowLegendreFitter {
   private readonly nc: number;
   private readonly design: Float64Array;
+  /** The design matrix by basis function: byColumn[k * width + x]. */
+  private readonly byColumn: Float64Array;
   private readonly fullNormal: Float64Array;
   private readonly normal: Float64Array;
   private readonly work: Float64Array;
@@ -31,6 +33,8 @@ export class RowLegendreFitter {
     this.design = new Float64Array(width * nc);
     const basis = new Float64Array(nc);
     for (let x = 0; x < width; x++) this.design.set(legendreBasis(normalise(x, 0, width - 1), order, basis), x * nc);
+    this.byColumn = new Float64Array(width * nc);
+    for (let x = 0; x < width; x++) for (let k = 0; k < nc; k++) this.byColumn[k * width + x] = this.design[x * nc + k]!;
     this.fullNormal = new Float64Array(nc * nc);
     for (let x = 0; x < width; x++) this.accumulate(this.fullNormal, x, 1);
     this.normal = new Float64Array(nc * nc);
@@ -46,7 +50,7 @@ export class RowLegendreFitter {
    * leaves `model` alone) when fewer than 2 (order + 1) points are usable.
    */
   fit(row: ArrayLike<number>, usable: Uint8Array, model: Float32Array, options: RowFitOptions): boolean {
-    const { width, nc, design, normal, kept, residual } = this;
+    const { width, nc, byColumn, normal, kept, residual } = this;
     const minKept = nc + 1;
     let count = 0;
     for (let x = 0; x < width; x++) count += usable[x]!;
@@ -60,11 +64,16 @@ export class RowLegendreFitter {
     }
     for (let iter = 0; ; iter++) {
       if (!this.solve()) return false;
+      // The model one basis function at a time (same sum order as per point, long simple loops).
+      residual.fill(0);
+      for (let k = 0; k < nc; k++) {
+        const c = this.coeffs[k]!;
+        const column = byColumn.subarray(k * width, (k + 1) * width);
+        for (let x = 0; x < width; x++) residual[x] += column[x]! * c;
+      }
       let chi2 = 0;
       for (let x = 0; x < width; x++) {
-        let m = 0;
-        for (let k = 0; k < nc; k++) m += design[x * nc + k]! * this.coeffs[k]!;
-        residual[x] = row[x]! - m;
+        residual[x] = row[x]! - residual[x]!;
         if (kept[x]) chi2 += residual[x]! * residual[x]!;
       }
       if (iter >= options.maxIterations || !(chi2 > 0)) break;
