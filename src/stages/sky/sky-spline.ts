@@ -75,9 +75,7 @@ function fitSpline(input: SkyFitInput, spline: UniformCubicBSpline, slit: Float6
   const n = spline.nBasis;
   const normal = new Float64Array(n * 4);
   const rhs = new Float64Array(n);
-  const start = spline.start;
-  const inv = 1 / spline.spacing;
-  const last = spline.nIntervals - 1;
+  const b = new Float64Array(4);
   const pc = previous?.coeffs;
   const clip2 = clipSigma * clipSigma;
   let used = 0;
@@ -89,19 +87,11 @@ function fitSpline(input: SkyFitInput, spline: UniformCubicBSpline, slit: Float6
       if (!use[i]) continue;
       const v = variance[i]!;
       if (!(v > 0)) continue;
-      // Uniform cubic B-spline weights, inlined (see kernels/bspline.ts).
-      const t = (wave[i]! - start) * inv;
-      let k = Math.floor(t);
-      if (k < 0) k = 0;
-      else if (k > last) k = last;
-      const u = t - k;
-      const u2 = u * u;
-      const u3 = u2 * u;
-      const r = 1 - u;
-      const b0 = (r * r * r) / 6;
-      const b1 = (3 * u3 - 6 * u2 + 4) / 6;
-      const b2 = (-3 * u3 + 3 * u2 + 3 * u + 1) / 6;
-      const b3 = u3 / 6;
+      const k = spline.weights(wave[i]!, b);
+      const b0 = b[0]!;
+      const b1 = b[1]!;
+      const b2 = b[2]!;
+      const b3 = b[3]!;
       const d = sci[i]!;
       if (pc) {
         const res = d - gPrev * (pc[k]! * b0 + pc[k + 1]! * b1 + pc[k + 2]! * b2 + pc[k + 3]! * b3);
@@ -191,25 +181,16 @@ function fitSlit(input: SkyFitInput, fit: SkySpline, order: number): void {
  * `variance` the model's variance b^T Z b (Z the coefficient covariance in band storage).
  */
 export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, width: number, y: number, value: Float64Array, variance: Float64Array | null): void {
-  const { start, spacing, nIntervals } = fit.spline;
-  const inv = 1 / spacing;
-  const last = nIntervals - 1;
+  const b = new Float64Array(4);
   const c = fit.coeffs;
   const z = fit.covariance;
   const g = fit.slit[y]!;
   for (let x = 0; x < width; x++) {
-    const t = (wave[offset + x]! - start) * inv;
-    let k = Math.floor(t);
-    if (k < 0) k = 0;
-    else if (k > last) k = last;
-    const u = t - k;
-    const u2 = u * u;
-    const u3 = u2 * u;
-    const r = 1 - u;
-    const b0 = (r * r * r) / 6;
-    const b1 = (3 * u3 - 6 * u2 + 4) / 6;
-    const b2 = (-3 * u3 + 3 * u2 + 3 * u + 1) / 6;
-    const b3 = u3 / 6;
+    const k = fit.spline.weights(wave[offset + x]!, b);
+    const b0 = b[0]!;
+    const b1 = b[1]!;
+    const b2 = b[2]!;
+    const b3 = b[3]!;
     value[x] = g * (c[k]! * b0 + c[k + 1]! * b1 + c[k + 2]! * b2 + c[k + 3]! * b3);
     if (variance) {
       // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q).
