@@ -100,5 +100,13 @@ export function buildInventory(frames: ClassifiedFrame[], unreadable: Unreadable
     targets.push(...pairTargets(g, rules));
   }
   for (const f of frames.filter((x) => x.kind === 'unknown')) notes.push(`${f.path}: not classified (${f.reason}); add a rule or list it by hand`);
+  distinctTargetNames(targets);
   return { frames, unreadable, setups, targets, notes };
+}
+
+/** The manifest wants unique target names: an object observed on several setups gets the setup name added. */
+function distinctTargetNames(targets: TargetDraft[]): void {
+  const count = new Map<string, number>();
+  for (const t of targets) count.set(t.name, (count.get(t.name) ?? 0) + 1);
+  for (const t of targets) if (count.get(t.name)! > 1) t.name = `${t.name} (${t.setup})`;
 }

@@ -39,6 +39,12 @@ describe('buildInventory', () => {
     expect(b!.setup).toBe('setup1-2');
   });
 
+  it('names a galaxy observed on two setups once per setup, so the manifest keeps its target names unique', () => {
+    const frames = [f('object', 10, { OBJECT: 'Halden Spiral' }), f('object', 40, { OBJECT: 'Halden Spiral', TILT: 17.4 }), f('object', 70, { OBJECT: 'Orrin Disk' })];
+    const inv = buildInventory(frames, [], DEFAULT_RULES);
+    expect(inv.targets.map((t) => [t.name, t.setup])).toEqual([['Halden Spiral (setup1)', 'setup1'], ['Orrin Disk', 'setup1'], ['Halden Spiral (setup2)', 'setup2']]);
+  });
+
   it('notes missing calibrations, calibration-only setups and unclassified frames', () => {
     const frames = [f('object', 10, { OBJECT: 'A' }), f('flat', 20, { TILT: 17.4 }), f('focus', 30)];
     const notes = buildInventory(frames, [], DEFAULT_RULES).notes.join('\n');
