@@ -4,7 +4,8 @@
  * listed with its reason, and the draft manifest accepted by the manifest check once the
  * FILL IN values are given. Also `whorl inventory` run in-process.
  */
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { gzipSync } from 'node:zlib';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -42,6 +43,26 @@ describe('inventory of a simulated night', () => {
     const kinds = new Map(inv.frames.map((f) => [f.path.slice(dir.length + 1), f.kind]));
     for (const f of run.frames) expect(kinds.get(f.name), f.name).toBe(f.kind);
     expect(inv.frames.length).toBe(run.frames.length);
+  });
+
+  it('classifies by headers, not names: renamed, upper-case, .fit, gzipped and nested files; a text file is listed, a notes file ignored', () => {
+    const messy = join(dir, 'messy');
+    mkdirSync(join(messy, 'night1', 'late'), { recursive: true });
+    const renamed = new Map<string, string>(); // new path -> simulator name
+    run.frames.forEach((frame, i) => {
+      const bytes = readFileSync(join(dir, frame.name));
+      const stem = `frame${String(i).padStart(3, '0')}`;
+      const path = [join(messy, `${stem.toUpperCase()}.FITS`), join(messy, 'night1', `${stem}.fit`), join(messy, 'night1', 'late', `${stem}.fits.gz`)][i % 3]!;
+      writeFileSync(path, path.endsWith('.gz') ? gzipSync(bytes) : bytes);
+      renamed.set(path, frame.name);
+    });
+    writeFileSync(join(messy, 'pointing.fits'), 'RA 10:08:41 DEC -18:44:07\n');
+    writeFileSync(join(messy, 'notes.txt'), 'cloudy after 3 UT\n');
+    const s = scanDirectory(messy);
+    const kinds = buildInventory(s.frames.map((f) => classifyFrame(f, DEFAULT_RULES)), s.unreadable, DEFAULT_RULES).frames;
+    expect(kinds).toHaveLength(run.frames.length);
+    for (const f of kinds) expect(f.kind, f.path).toBe(run.frames.find((x) => x.name === renamed.get(f.path))!.kind);
+    expect(s.unreadable).toEqual([{ path: join(messy, 'pointing.fits'), reason: expect.stringMatching(/not a FITS file/) }]);
   });
 
   it('lists the corrupt file with the reason and goes on', () => {
