@@ -6,7 +6,6 @@
  * inflate its error and raise a warning.
  */
 import { DiagnosticLog } from '../../diagnostics.js';
-import { InputError } from '../../errors.js';
 import { chi2ErrorScale, chi2NoiseLimit } from '../../kernels/chi2-scale.js';
 import { fitGaussianLine } from '../../kernels/gaussian-fit.js';
 import { evalLegendre2D, legendre2DStepX } from '../../kernels/legendre.js';
@@ -15,6 +14,7 @@ import type { SkyLine } from '../../physics/catalogues.js';
 import type { CalibratedFrame, StageResult } from '../../products/frame.js';
 import type { FlexureMeasurement, WavelengthSolution } from '../../products/wavelength.js';
 import type { FlexureSettings } from './settings.js';
+import { requireSameGrid } from './same-grid.js';
 import { givenSkyRows, skyRowMask } from './sky-rows.js';
 
 /** Sky lines closer than this many LSF sigmas to a neighbour above a tenth of their intensity are blends (common practice). */
@@ -81,9 +81,7 @@ function stackAround(frame: CalibratedFrame, wave: Float64Array, sky: Uint8Array
 }
 
 export function measureFlexure(science: CalibratedFrame, solution: WavelengthSolution, skyLines: SkyLine[], settings: FlexureSettings): StageResult<WavelengthSolution> {
-  if (science.width !== solution.width || science.height !== solution.height) {
-    throw new InputError('arc.size-mismatch', 'the science frame and the arc solution differ in size', {}, { expected: `${solution.width}x${solution.height}`, actual: `${science.width}x${science.height}` });
-  }
+  requireSameGrid(science, solution);
   const log = new DiagnosticLog('arc');
   const file = science.exposures[0]?.path;
   const place = file ? { file } : {};

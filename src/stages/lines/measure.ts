@@ -14,6 +14,7 @@ import { SPEED_OF_LIGHT_KMS as C } from '../../physics/constants.js';
 import { MASK_BITS, type CalibratedFrame, type StageResult } from '../../products/frame.js';
 import { LINE_FLAGS, type BinFit, type LineMeasurement, type LineTable, type RowBin, type SkyModel } from '../../products/lines.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
+import { requireSameGrid } from '../arc/same-grid.js';
 import { fitBinGroups, refitHeldWidth, type GroupWindow, type InstrumentalSigma, type VelocityState } from './bin-fits.js';
 import { BinSpectrum } from './bin-spectrum.js';
 import { continuumProfile } from './continuum.js';
@@ -32,9 +33,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   checkSettings(settings);
   const log = new DiagnosticLog('lines');
   const { width, height } = frame;
-  if (solution.width !== width || solution.height !== height) {
-    throw new StageError('lines', 'size-mismatch', `wavelength solution is ${solution.width} x ${solution.height}, frame is ${width} x ${height}`);
-  }
+  requireSameGrid(frame, solution);
   const specs = groupSpecs(settings.lines);
   const binName = settings.lines.includes('Halpha') ? 'Halpha' : settings.lines[0]!;
   const binGroup = specs.findIndex((g) => g.members.includes(binName));
@@ -60,7 +59,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   if (vStart === null) {
     const others = specs[binGroup]!.rest.filter((_, k) => k !== binMember);
     vStart = guessVelocity(central, binRest, others, Math.hypot(instCentre, (START_DISPERSION_KMS / C) * binRest));
-    if (vStart === null) throw new StageError('lines', 'no-emission', `no ${binName} emission found near the centre row ${centreRow}`);
+    if (vStart === null) throw new StageError('lines', 'no-emission', `no ${binName} emission found near the centre row ${centreRow}; give lines.redshiftGuessKms (km/s) or check that the spectrum covers ${binName}`);
     log.info('velocity-guess', `starting velocity ${vStart.toFixed(1)} km/s from the strongest ${binName} peak near row ${centreRow}`, { place: { row: centreRow, line: binName } });
   }
   const start: VelocityState = { vKms: vStart, sigmaKms: (C * Math.hypot(instCentre, (START_DISPERSION_KMS / C) * binRest)) / binRest };
@@ -81,7 +80,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   };
   const ctx: WalkContext = { frame, wave, badBits: BAD, settings, binRest, instrumental, fit: (bin, state) => fitBinGroups(bin, specs, state, settings, instrumental), binGroup, binMember, columns };
   const records = binRows(ctx, centreRow, start);
-  if (records.length === 0) throw new StageError('lines', 'no-emission', `${binName} never reached S/N 3 in any bin around row ${centreRow}`);
+  if (records.length === 0) throw new StageError('lines', 'no-emission', `${binName} never reached S/N 3 in any bin around row ${centreRow}, up to ${settings.maxBinRows} rows a bin; raise lines.maxBinRows, or give lines.redshiftGuessKms (km/s) if the starting velocity is off`);
 
   // Width held where S/N is low, at the median velocity width of the bins above freeWidthSnr; a
   // group with no such bin borrows the binning group's (same gas, nearly the same instrument).

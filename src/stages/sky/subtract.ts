@@ -9,6 +9,7 @@ import { median } from '../../kernels/robust.js';
 import { MASK_BITS, type CalibratedFrame, type StageResult } from '../../products/frame.js';
 import type { SkyModel } from '../../products/lines.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
+import { requireSameGrid } from '../arc/same-grid.js';
 import { emissionScore, galaxyRun, MEDIAN_STRIDE, rowMedians, rowsAbove } from './galaxy-rows.js';
 import type { SkySettings } from './settings.js';
 import { maskCoherentEmission } from './emission-mask.js';
@@ -29,9 +30,7 @@ const BAD = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MA
 
 export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution, settings: SkySettings): StageResult<{ frame: CalibratedFrame; sky: SkyModel }> {
   const { width, height } = frame;
-  if (solution.width !== width || solution.height !== height) {
-    throw new StageError('sky', 'size-mismatch', `wavelength solution is ${solution.width} x ${solution.height}, frame is ${width} x ${height}`);
-  }
+  requireSameGrid(frame, solution);
   checkSettings(settings);
   const log = new DiagnosticLog('sky');
   const good = new Uint8Array(width * height);
@@ -50,7 +49,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const firstSky = selectRows(height, rowUsable, contRows, settings.edgeRows);
   // The first sky only has to reveal line emission: every second row, one clipping round.
   const first = fit(frame, solution, good, firstSky, 0, { ...settings, clipIterations: 1 }, 2);
-  if (first === null) throw new StageError('sky', 'no-sky', 'no usable sky rows: the galaxy or masked pixels fill the slit');
+  if (first === null) throw new StageError('sky', 'no-sky', 'no usable sky rows: the galaxy or masked pixels fill the slit; name rows of clean sky with sky.regions');
 
   // 2. Line emission over the first sky model, then the galaxy region.
   const residual = new Float32Array(width * height);
@@ -91,7 +90,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   }
   const use = new Uint8Array(good.length);
   let model = fit(frame, solution, good, skyRows, settings.order, settings, 1, use);
-  if (model === null) throw new StageError('sky', 'no-sky', `too few good sky pixels to fit the sky (${nSky} sky rows)`);
+  if (model === null) throw new StageError('sky', 'no-sky', `too few good sky pixels to fit the sky (${nSky} sky rows); widen sky.regions or lower sky.edgeRows and sky.marginRows`);
   // Faint emission coherent along the slit in the sky rows: masked, and the sky fitted again. The
   // model took up part of that emission, so the residual understates it: a few rounds.
   let masked = 0;
