@@ -6,8 +6,10 @@ import type { ExposureInfo, RawFrame } from '../../products/frame.js';
 export function exposureInfo(frame: RawFrame, strict: boolean): ExposureInfo {
   const exptimeS = frame.header.getNumber('EXPTIME');
   if (exptimeS === undefined || !(exptimeS > 0)) {
-    if (strict || exptimeS !== undefined) {
-      throw new InputError('ccd.exptime-invalid', 'the exposure time is missing or not positive', { file: frame.path, hdu: frame.hdu, key: 'EXPTIME' }, { expected: 'EXPTIME > 0 (seconds)', actual: String(exptimeS) });
+    const card = frame.header.get('EXPTIME');
+    if (strict || card !== undefined) {
+      const actual = card === undefined ? 'no EXPTIME card' : JSON.stringify(card);
+      throw new InputError('ccd.exptime-invalid', 'the exposure time is missing or not positive', { file: frame.path, hdu: frame.hdu, key: 'EXPTIME' }, { expected: 'EXPTIME > 0 (seconds)', actual });
     }
   }
   const dateObs = frame.header.getString('DATE-OBS');

@@ -90,6 +90,13 @@ describe('calibration inputs', () => {
     expect(e.code).toBe('ccd.exptime-invalid');
     expect(e.place).toMatchObject({ file: 'raw/s3.fits', key: 'EXPTIME' });
   });
+  it('an EXPTIME that is not a number is shown as written', () => {
+    const cal = buildCalibration(calibrationFrames(), DEFAULT_CCD_SETTINGS).product;
+    const frame = syntheticFrame('raw/s4.fits', () => 50);
+    frame.header.set('EXPTIME', 'long');
+    const e = caught(() => calibrateScience([frame], cal, DEFAULT_CCD_SETTINGS));
+    expect(e.message).toBe('raw/s4.fits, HDU 0, EXPTIME: the exposure time is missing or not positive (expected EXPTIME > 0 (seconds), found "long")');
+  });
 });
 
 describe('settings', () => {
