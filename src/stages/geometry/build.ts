@@ -17,7 +17,7 @@ import { foldLight } from './light.js';
 import { placePoints, recedingSense, usable } from './place.js';
 import { resolveGeometrySettings, type GeometryInput } from './settings.js';
 import { pvSamples } from './mirror.js';
-import { fitSymmetry } from './symmetry.js';
+import { fitSymmetry, OUTLIER_SIGMA } from './symmetry.js';
 import { outerVelocity } from './outer-velocity.js';
 
 export function buildRotationCurve(
@@ -44,7 +44,7 @@ export function buildRotationCurve(
   };
 
   const good = velocities.points.filter((p) => usable(p, settings.rejectFlags)).sort((a, b) => a.yCentre - b.yCentre);
-  if (good.length < 6) throw new StageError('geometry', 'too-few-points', `${good.length} usable velocity points; at least 6 are needed to fold a curve`);
+  if (good.length < 6) throw new StageError('geometry', 'too-few-points', `${good.length} usable velocity points; at least 6 are needed to fold a curve (lower lines.snrTarget for more bins, or clear bits from rejectFlags)`);
   const samples = pvSamples(
     Float64Array.from(good, (p) => p.yCentre),
     Float64Array.from(good, (p) => p.vLos),
@@ -61,13 +61,13 @@ export function buildRotationCurve(
     ...(settings.centreRow !== undefined ? { fixedCentreRow: settings.centreRow } : {}),
     ...(settings.systemicVelocityKms !== undefined ? { fixedVSysKms: settings.systemicVelocityKms } : {}),
   });
-  if (sym === null) throw new StageError('geometry', 'no-symmetric-part', 'too few points on both sides of the centre to compare the sides of the curve');
+  if (sym === null) throw new StageError('geometry', 'no-symmetric-part', 'fewer than 6 points on both sides of the centre to compare the sides of the curve; the search starts at the continuum peak: give centreRow if that is not the kinematic centre');
   if (sym.atSearchEdge) {
     log.warn('centre-at-search-edge', `the most symmetric centre lies at the edge of the search, ${settings.centreSearchRows} rows from the continuum peak`, {
       place: { row: Math.round(sym.centreRow) },
     });
   }
-  if (sym.nDropped > 0) log.info('asymmetric-points', `${sym.nDropped} velocity points are more than 5 robust sigmas off their mirror and were left out of the centre fit (they are still folded)`);
+  if (sym.nDropped > 0) log.info('asymmetric-points', `${sym.nDropped} velocity points are more than ${OUTLIER_SIGMA} robust sigmas off their mirror and were left out of the centre fit (they are still folded)`);
   if (sym.chi2Reduced > 3) {
     log.warn('asymmetric', `the two sides of the curve differ by more than their errors (reduced chi-square ${sym.chi2Reduced.toFixed(2)} of the fold)`, {
       expected: 'about 1',

@@ -10,6 +10,7 @@
  * as the estimate itself does.
  */
 import { Rng } from '../../kernels/random.js';
+import type { SymmetryFit } from '../../products/curve.js';
 import { dropAsymmetricPoints, foldChiSquare, type FoldChiSquare, type PvSamples } from './mirror.js';
 
 export interface SymmetryOptions {
@@ -21,17 +22,15 @@ export interface SymmetryOptions {
   fixedVSysKms?: number;
 }
 
-export interface SymmetryResult {
+/** The fit as the product records it (chi2Reduced, nCompared, nDropped), with the centre and v_sys. */
+export interface SymmetryResult extends Pick<SymmetryFit, 'chi2Reduced' | 'nCompared' | 'nDropped'> {
+  /** Kinematic centre (internal row, fractional) and its 1-sigma error (rows). */
   centreRow: number;
   centreRowErr: number;
   vSysKms: number;
   vSysErrKms: number;
-  chi2Reduced: number;
-  nCompared: number;
   /** True when the best centre lies at the edge of the searched range. */
   atSearchEdge: boolean;
-  /** Points left out of the fit for disagreeing with their mirror by more than OUTLIER_SIGMA robust sigmas. */
-  nDropped: number;
 }
 
 /** Grid steps of the centre search (rows): coarse about the start, fine about the coarse result. */
@@ -43,7 +42,7 @@ const GOLDEN_TOLERANCE_ROWS = 1e-3;
 const BOOTSTRAP_GRID_STEPS = 12;
 const MIN_COMPARED = 6;
 /** A point this many robust sigmas off its mirror is left out of the centre fit (common practice: 5-sigma clipping). */
-const OUTLIER_SIGMA = 5;
+export const OUTLIER_SIGMA = 5;
 /** Half-width (rows) of the second, narrow search. */
 const NARROW_SEARCH_ROWS = 1;
 
