@@ -20,6 +20,10 @@ export class RowLegendreFitter {
   private readonly byColumn: Float64Array;
   private readonly fullNormal: Float64Array;
   private readonly normal: Float64Array;
+  /** The normal matrix of the usable pattern last seen, and that pattern. */
+  private readonly baseNormal: Float64Array;
+  private readonly baseUsable: Uint8Array;
+  private baseValid = false;
   private readonly work: Float64Array;
   private readonly rhs: Float64Array;
   private readonly coeffs: Float64Array;
@@ -38,6 +42,8 @@ export class RowLegendreFitter {
     this.fullNormal = new Float64Array(nc * nc);
     for (let x = 0; x < width; x++) this.accumulate(this.fullNormal, x, 1);
     this.normal = new Float64Array(nc * nc);
+    this.baseNormal = new Float64Array(nc * nc);
+    this.baseUsable = new Uint8Array(width);
     this.work = new Float64Array(nc * nc);
     this.rhs = new Float64Array(nc);
     this.coeffs = new Float64Array(nc);
@@ -55,12 +61,14 @@ export class RowLegendreFitter {
     let count = 0;
     for (let x = 0; x < width; x++) count += usable[x]!;
     if (count < 2 * nc) return false;
-    normal.set(this.fullNormal);
-    this.rhs.fill(0);
-    for (let x = 0; x < width; x++) {
-      kept[x] = usable[x]!;
-      if (kept[x]) this.addRhs(row[x]!, x, 1);
-      else this.accumulate(normal, x, -1);
+    this.startNormal(usable);
+    // Right-hand side one basis function at a time (the same sums, in the same order, as per point).
+    kept.set(usable);
+    for (let k = 0; k < nc; k++) {
+      const column = byColumn.subarray(k * width, (k + 1) * width);
+      let sum = 0;
+      for (let x = 0; x < width; x++) if (usable[x]) sum += row[x]! * column[x]!;
+      this.rhs[k] = sum;
     }
     for (let iter = 0; ; iter++) {
       if (!this.solve()) return false;
@@ -96,6 +104,23 @@ export class RowLegendreFitter {
     }
     for (let x = 0; x < width; x++) model[x] = row[x]! - residual[x]!;
     return true;
+  }
+
+  /**
+   * `normal` = the normal matrix of the points of `usable`. Rows of a frame mostly share one
+   * pattern (bad and unlit columns), so the last pattern's matrix is kept and reused.
+   */
+  private startNormal(usable: Uint8Array): void {
+    const { width, baseUsable } = this;
+    let same = this.baseValid;
+    for (let x = 0; same && x < width; x++) same = usable[x] === baseUsable[x];
+    if (!same) {
+      this.baseNormal.set(this.fullNormal);
+      for (let x = 0; x < width; x++) if (!usable[x]) this.accumulate(this.baseNormal, x, -1);
+      baseUsable.set(usable);
+      this.baseValid = true;
+    }
+    this.normal.set(this.baseNormal);
   }
 
   private accumulate(target: Float64Array, x: number, sign: number): void {
