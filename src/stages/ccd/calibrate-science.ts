@@ -19,6 +19,25 @@ import { checkCcdSettings, type CcdSettings } from './settings.js';
 /** Mask bits that keep a pixel out of the Laplacian detection and of the replacement medians. */
 const UNUSABLE = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
 
+/**
+ * A science header whose GAIN or RDNOISE differs from the calibration's (another readout mode)
+ * makes the electrons and the variance wrong; the calibration's values are used, with a warning.
+ * Values fixed in the manifest are not compared: they overrule every header.
+ */
+function warnOnOtherReadout(frame: RawFrame, cal: CcdCalibration, settings: CcdSettings, log: DiagnosticLog): void {
+  const checks = [
+    { key: 'GAIN', fixed: settings.gain !== undefined, used: cal.gain, unit: 'e-/ADU' },
+    { key: 'RDNOISE', fixed: settings.readNoise !== undefined, used: cal.readNoiseE, unit: 'e-' },
+  ];
+  for (const c of checks) {
+    const own = frame.header.getNumber(c.key);
+    if (c.fixed || own === undefined || Math.abs(own - c.used) <= 1e-6 * Math.abs(c.used)) continue;
+    log.warn('readout-differs', `${c.key} of this exposure differs from the calibration frames'; the calibration's value is used`, {
+      place: { file: frame.path, hdu: frame.hdu }, expected: `${c.used} ${c.unit}`, actual: `${own} ${c.unit}`,
+    });
+  }
+}
+
 export function calibrateScience(science: RawFrame[], cal: CcdCalibration, settings: CcdSettings): StageResult<CalibratedFrame> {
   const log = new DiagnosticLog('ccd');
   checkCcdSettings(settings);
@@ -28,6 +47,7 @@ export function calibrateScience(science: RawFrame[], cal: CcdCalibration, setti
   const detSettings = { ...settings, gain: cal.gain, readNoise: cal.readNoiseE };
   const infos = science.map((f) => {
     checkSameDetector(f, resolveDetector(f, detSettings), cal.reference);
+    warnOnOtherReadout(f, cal, settings, log);
     return exposureInfo(f, true);
   });
   const det = cal.reference.detector;

@@ -90,6 +90,19 @@ describe('calibration inputs', () => {
     expect(e.code).toBe('ccd.exptime-invalid');
     expect(e.place).toMatchObject({ file: 'raw/s3.fits', key: 'EXPTIME' });
   });
+  it('a science exposure read out with another GAIN or RDNOISE is a warning naming the file; a manifest gain silences it', () => {
+    const cal = buildCalibration(calibrationFrames(), DEFAULT_CCD_SETTINGS).product;
+    const same = calibrateScience([syntheticFrame('raw/s5.fits', () => 50)], cal, DEFAULT_CCD_SETTINGS).diagnostics;
+    expect(same.filter((d) => d.rule === 'ccd.readout-differs')).toEqual([]);
+    const other = calibrateScience([syntheticFrame('raw/s6.fits', () => 50, { gain: 4, readNoise: 9 })], cal, DEFAULT_CCD_SETTINGS).diagnostics;
+    expect(other.filter((d) => d.rule === 'ccd.readout-differs').map((d) => [d.severity, d.place?.file, d.expected, d.actual])).toEqual([
+      ['warning', 'raw/s6.fits', '2 e-/ADU', '4 e-/ADU'],
+      ['warning', 'raw/s6.fits', '5 e-', '9 e-'],
+    ]);
+    const fixed = { ...DEFAULT_CCD_SETTINGS, gain: 2, readNoise: 5 };
+    const calFixed = buildCalibration(calibrationFrames(), fixed).product;
+    expect(calibrateScience([syntheticFrame('raw/s7.fits', () => 50, { gain: 4, readNoise: 9 })], calFixed, fixed).diagnostics.filter((d) => d.rule === 'ccd.readout-differs')).toEqual([]);
+  });
   it('an EXPTIME that is not a number is shown as written', () => {
     const cal = buildCalibration(calibrationFrames(), DEFAULT_CCD_SETTINGS).product;
     const frame = syntheticFrame('raw/s4.fits', () => 50);
