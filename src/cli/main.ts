@@ -12,11 +12,12 @@ import { registerSimulate } from './commands/simulate.js';
 import { registerReduce } from './commands/reduce.js';
 import { registerDemo } from './commands/demo.js';
 import { registerInventory } from './commands/inventory.js';
+import { registerReport } from './commands/report.js';
 
 /** Each command module adds itself to the program; the action returns the exit code. */
 export type CommandRegistrar = (program: Command, io: CliIo, setExit: (code: number) => void) => void;
 
-const COMMANDS: CommandRegistrar[] = [registerInspect, registerSimulate, registerReduce, registerDemo, registerInventory];
+const COMMANDS: CommandRegistrar[] = [registerInspect, registerSimulate, registerReduce, registerDemo, registerInventory, registerReport];
 
 export async function main(argv: string[], io: CliIo = processIo()): Promise<number> {
   let exitCode: number = EXIT.ok;

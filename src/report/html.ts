@@ -20,3 +20,11 @@ export function jsonForScript(value: unknown): string {
 export function fmt(value: number | undefined, decimals = 1): string {
   return value === undefined || !Number.isFinite(value) ? '\u2014' : value.toFixed(decimals);
 }
+
+/**
+ * The 1-based row along the slit in the trimmed data section (as rows.csv counts them) of an
+ * internal 0-based row: internal rows keep the raw axis's sense (Orientation, products/frame.ts).
+ */
+export function fileRow(internalRow: number): number {
+  return internalRow + 1;
+}

@@ -6,7 +6,24 @@ export const PAGE_SCRIPT = String.raw`
 (function () {
   var dataEl = document.getElementById('row-fit-data');
   if (!dataEl) return;
-  var data = JSON.parse(dataEl.textContent);
+  var packed = JSON.parse(dataEl.textContent);
+  var raw = atob(packed.blob), bytes = new Uint8Array(raw.length);
+  for (var b = 0; b < raw.length; b++) bytes[b] = raw.charCodeAt(b);
+  var view = new DataView(bytes.buffer);
+  // Unpack one group (see src/report/fit-data.ts): int16 little-endian, -32768 for no value.
+  function unpack(g) {
+    function arr(k, scale, offset, slope) {
+      var out = new Array(g.n);
+      for (var i = 0; i < g.n; i++) {
+        var q = view.getInt16(2 * (g.o + k * g.n + i), true);
+        out[i] = q === -32768 ? null : offset + i * slope + q * scale;
+      }
+      return out;
+    }
+    var x = new Array(g.n).fill(0);
+    g.x.forEach(function (i) { x[i] = 1; });
+    return { g: g.g, w: arr(0, g.ws, g.w0, g.wd), d: arr(1, g.vs, 0, 0), e: arr(2, g.vs, 0, 0), m: arr(3, g.vs, 0, 0), x: x };
+  }
   var BLUE = '#56B4E9', ORANGE = '#E69F00', GREY = '#999999';
   function draw(canvas, f) {
     var ctx = canvas.getContext('2d');
@@ -50,9 +67,9 @@ export const PAGE_SCRIPT = String.raw`
   function drawPanel(panel) {
     if (panel.getAttribute('data-drawn')) return;
     panel.setAttribute('data-drawn', '1');
-    var fits = data[Number(panel.getAttribute('data-index'))];
+    var groups = packed.panels[Number(panel.getAttribute('data-index'))];
     var canvases = panel.getElementsByTagName('canvas');
-    for (var k = 0; k < canvases.length; k++) draw(canvases[k], fits[k]);
+    for (var k = 0; k < canvases.length; k++) draw(canvases[k], unpack(groups[k]));
   }
   var panels = document.querySelectorAll('.row-panel');
   if ('IntersectionObserver' in window) {

@@ -33,8 +33,6 @@ export interface TargetReportInput {
   diagnostics: Diagnostic[];
   /** Provenance as written to provenance.json (rendered as a table, not interpreted). */
   provenance: Record<string, unknown>;
-  /** Map from internal row to the 1-based row of the trimmed raw section (as in rows.csv). */
-  fileRow: (internalRow: number) => number;
 }
 
 export interface RunIndexEntry {

@@ -4,10 +4,10 @@
  * through the report's run hook.
  */
 import { join } from 'node:path';
-import { renderRunIndex } from '../report/index.js';
 import type { RunIndexEntry } from '../report/types.js';
 import { VERSION } from '../version.js';
 import { writeFileAtomic } from './io/atomic.js';
+import { writeRunIndex } from './report-files.js';
 import { readTargetState } from './io/state.js';
 import { libraryVersions } from './io/versions.js';
 import type { ResolvedRun } from './manifest/resolve.js';
@@ -47,7 +47,7 @@ export function writeRunProducts(run: ResolvedRun, summary: RunSummary, t: RunTi
     finishedUtc: new Date().toISOString(),
   };
   writeFileAtomic(join(out, 'provenance.json'), `${JSON.stringify(provenance, null, 1)}\n`);
-  writeFileAtomic(join(out, 'index.html'), renderRunIndex({ title: `whorl run ${summary.manifest}`, whorlVersion: VERSION, targets: indexEntries(run, summary) }));
+  writeRunIndex(out, { title: `whorl run ${summary.manifest}`, whorlVersion: VERSION, targets: indexEntries(run, summary) });
 }
 
 function indexEntries(run: ResolvedRun, summary: RunSummary): RunIndexEntry[] {

@@ -6,7 +6,6 @@
  */
 import { rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { renderTargetReport } from '../report/target-report.js';
 import { VERSION } from '../version.js';
 import type { EventSink } from './events.js';
 import { describeFailure } from './failure.js';
@@ -15,6 +14,7 @@ import { clearTargetState, readTargetState, writeTargetState, type CurveThumbnai
 import { libraryVersions } from './io/versions.js';
 import { manifestRelative, type ResolvedSetup, type ResolvedTarget } from './manifest/resolve.js';
 import { targetReportInput } from './pipeline/report-input.js';
+import { writeTargetReport } from './report-files.js';
 import { runTargetStages, TARGET_STAGES } from './pipeline/target-stages.js';
 import { curveThumbnail, targetKeyNumbers, writeTargetProducts } from './pipeline/target-writes.js';
 import type { SetupCalibration } from './pipeline/setup-stages.js';
@@ -116,8 +116,7 @@ export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, 
     outcome.peakMemoryMb = timer.peakMemoryMb;
     // A failed target keeps no products from an earlier run: they would no longer match its inputs.
     for (const p of previous?.entry.products ?? []) rmSync(join(job.outputDir, p), { force: true });
-    const report = join(job.target.folder, 'report.html');
-    writeFileAtomic(join(job.outputDir, report), renderTargetReport(targetReportInput(job, { solution: calibration.solution }, diagnostics(), provenance, reason)));
+    const report = writeTargetReport(job.outputDir, job.target.folder, targetReportInput(job, { solution: calibration.solution }, diagnostics(), provenance, reason));
     outcome.entry.products = [report, writeProvenance(job, { ...provenance, failure: { code, reason }, stagesMs: timer.ms, startedUtc: started.toISOString(), finishedUtc: new Date().toISOString() })];
     outcome.entry.diagnostics = countDiagnostics(diagnostics());
   }

@@ -49,6 +49,5 @@ export function sampleReportInput(nBins = 12, object = 'Sample galaxy'): TargetR
     cutout: { x0: 0, width, height, data: Float32Array.from({ length: width * height }, (_, i) => (i % width === 30 ? 100 : 1)), wavelength: wave.subarray(0, width) },
     diagnostics: [{ severity: 'warning', rule: 'lines.low-snr', stage: 'lines', message: 'bin 3 below the S/N target <b>', place: { row: 6 } }],
     provenance: { whorl: '0.1.0', inputs: [{ path: 'raw/sci_001.fits', sha256: 'abc' }] },
-    fileRow: (r) => r + 1,
   };
 }

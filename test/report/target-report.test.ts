@@ -38,12 +38,22 @@ describe.skipIf(!haveChromium)('target report in headless Chromium', () => {
     let panelsFound: string[] = [];
     let rowPanels = 0;
     let visibleAfterFilter = 0;
+    let inkedPixels = 0;
     const result = await visit(browser, file, async (page) => {
       panelsFound = await page.$$eval('section.panel', (els) => els.map((e) => e.id));
       rowPanels = await page.locator('.row-panel').count();
       await page.check('#only-flagged');
       visibleAfterFilter = await page.locator('.row-panel:visible').count();
       await page.uncheck('#only-flagged');
+      await page.locator('.row-panel canvas').first().scrollIntoViewIfNeeded();
+      await page.waitForFunction(() => document.querySelector('.row-panel')?.getAttribute('data-drawn') === '1');
+      inkedPixels = await page.$eval('.row-panel canvas', (c) => {
+        const ctx = (c as HTMLCanvasElement).getContext('2d')!;
+        const px = ctx.getImageData(0, 0, (c as HTMLCanvasElement).width, (c as HTMLCanvasElement).height).data;
+        let n = 0;
+        for (let i = 3; i < px.length; i += 4) if (px[i]! > 0) n++;
+        return n;
+      });
       await page.screenshot({ path: join(OUT, 'sample.png'), fullPage: true });
     });
     expect(result.consoleErrors).toEqual([]);
@@ -52,6 +62,8 @@ describe.skipIf(!haveChromium)('target report in headless Chromium', () => {
     expect(rowPanels).toBe(input.lines!.bins.length);
     const flaggedBins = new Set(input.lines!.measurements.filter((m) => m.flags !== 0).map((m) => m.bin)).size;
     expect(visibleAfterFilter).toBe(flaggedBins);
+    // the page script decoded the packed data and drew the first panel
+    expect(inkedPixels).toBeGreaterThan(200);
   });
 
   it('runs no script from an OBJECT keyword', async () => {

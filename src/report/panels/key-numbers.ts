@@ -1,4 +1,4 @@
-import { escapeHtml, fmt } from '../html.js';
+import { escapeHtml, fmt, fileRow } from '../html.js';
 import { LINE_FLAGS } from '../../products/lines.js';
 import type { TargetReportInput } from '../types.js';
 import { section } from './section.js';
@@ -15,7 +15,7 @@ export function keyNumbersPanel(input: TargetReportInput): string {
     rows.push(['Inclination', `${fmt(curve.geometry.inclinationDeg, 1)} \u00b1 ${fmt(curve.geometry.inclinationErrDeg, 1)} deg (${curve.geometry.inclinationSource})`]);
     rows.push(['Distance', `${fmt(curve.geometry.distanceMpc, 2)} Mpc (${fmt(curve.geometry.kpcPerArcsec * 1000, 1)} pc/arcsec)`]);
     rows.push(['Slit to major axis', `${fmt(curve.geometry.slitPaDeg - curve.geometry.majorAxisPaDeg, 1)} deg`]);
-    rows.push(['Kinematic centre', `row ${fmt(input.fileRow(curve.centreRow), 2)} \u00b1 ${fmt(curve.centreRowErr, 2)} (${curve.centreSource})`]);
+    rows.push(['Kinematic centre', `row ${fmt(fileRow(curve.centreRow), 2)} \u00b1 ${fmt(curve.centreRowErr, 2)} (${curve.centreSource})`]);
     rows.push(['Curve shape', curve.shape]);
   }
   if (solution) {

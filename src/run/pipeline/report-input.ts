@@ -42,8 +42,6 @@ export function targetReportInput(job: TargetJob, p: ReportProducts, diagnostics
     status: failure === undefined ? 'ok' : 'failed',
     diagnostics,
     provenance,
-    // Internal rows run along the slit in the sense of the raw axis (frame.ts, Orientation).
-    fileRow: (row) => row + 1,
   };
   const object = p.frame?.header.getString('OBJECT');
   if (object !== undefined) input.object = object;

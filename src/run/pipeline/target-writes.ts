@@ -11,13 +11,13 @@ import { lightCsv } from '../../products/writers/light.js';
 import { modellerText } from '../../products/writers/modeller.js';
 import { rowMapping, rowsCsv, rowsTableHdu } from '../../products/writers/rows.js';
 import { spectrumFits } from '../../products/writers/spectrum.js';
-import { renderTargetReport } from '../../report/target-report.js';
 import { VERSION } from '../../version.js';
 import { writeFileAtomic } from '../io/atomic.js';
 import type { CurveThumbnail } from '../io/state.js';
 import type { KeyNumbers } from '../summary.js';
 import type { TargetJob } from '../target-job.js';
 import { targetReportInput } from './report-input.js';
+import { writeTargetReport } from '../report-files.js';
 import type { SetupCalibration } from './setup-stages.js';
 import type { TargetProducts } from './target-stages.js';
 
@@ -50,7 +50,7 @@ export function writeTargetProducts(job: TargetJob, cal: SetupCalibration, p: Ta
   put('light.csv', lightCsv(p.curve));
   put('modeller.txt', modellerText(p.curve, { target: job.target.name }));
   const report = { frame: p.skySubtracted, solution: p.solution, lines: p.lines, velocities: p.velocities, curve: p.curve };
-  put('report.html', renderTargetReport(targetReportInput(job, report, diagnostics, provenance)));
+  files.push(writeTargetReport(job.outputDir, job.target.folder, targetReportInput(job, report, diagnostics, provenance)));
   return files;
 }
 
