@@ -13,7 +13,7 @@ export function onesComplementSum(bytes: Uint8Array, start: number, end: number,
   let lo = initial % 65536;
   const whole = start + ((end - start) & ~3);
   let i = start;
-  if (LITTLE_ENDIAN && (bytes.byteOffset + start) % 4 === 0) {
+  if (LITTLE_ENDIAN && whole > start && (bytes.byteOffset + start) % 4 === 0) {
     // Whole words at once: with w = b0 | b1 << 8 | b2 << 16 | b3 << 24 read natively, the masks
     // put b0 and b2 (b1 and b3) in separate 16-bit lanes; 256 words cannot overflow a lane.
     const words = new Uint32Array(bytes.buffer, bytes.byteOffset + start, (whole - start) >> 2);
