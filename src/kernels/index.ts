@@ -13,3 +13,4 @@ export * from './median-filter.js';
 export * from './laplacian.js';
 export * from './random.js';
 export * from './chi2-scale.js';
+export * from './sorted-search.js';

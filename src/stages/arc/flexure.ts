@@ -9,6 +9,7 @@ import { DiagnosticLog } from '../../diagnostics.js';
 import { chi2ErrorScale, chi2NoiseLimit } from '../../kernels/chi2-scale.js';
 import { fitGaussianLine } from '../../kernels/gaussian-fit.js';
 import { evalLegendre2D, legendre2DStepX } from '../../kernels/legendre.js';
+import { lowerIndex } from '../../kernels/sorted-search.js';
 import { SPEED_OF_LIGHT_KMS } from '../../physics/constants.js';
 import type { SkyLine } from '../../physics/catalogues.js';
 import type { CalibratedFrame, StageResult } from '../../products/frame.js';
@@ -48,14 +49,7 @@ function stackAround(frame: CalibratedFrame, wave: Float64Array, sky: Uint8Array
   for (let row = 0; row < height; row++) {
     if (!sky[row]) continue;
     const base = row * width;
-    let lo = 0;
-    let hi = width;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (wave[base + mid]! < start) lo = mid + 1;
-      else hi = mid;
-    }
-    for (let x = lo; x < width && wave[base + x]! <= centre + half; x++) {
+    for (let x = lowerIndex(wave.subarray(base, base + width), start); x < width && wave[base + x]! <= centre + half; x++) {
       const i = base + x;
       const v = frame.var[i]!;
       if (frame.mask[i] !== 0 || !(v > 0)) continue;

@@ -5,6 +5,7 @@
  */
 import { evalLegendre1D, legendre1DStep, type Legendre1D } from '../../kernels/legendre.js';
 import { fitLegendre1D, type LegendreFitResult } from '../../kernels/legendre-fit.js';
+import { nearestIndex } from '../../kernels/sorted-search.js';
 import type { LampLine } from '../../physics/catalogues.js';
 import type { LinearGuess } from './first-guess.js';
 import { pruneToErrors } from './prune.js';
@@ -29,18 +30,6 @@ export interface LineMatches {
 /** Centroid error floor added in quadrature (pixels): keeps the brightest line from dominating (common practice). */
 export const CENTROID_FLOOR_PX = 0.02;
 
-/** Index of the line nearest to wavelength `w` in a list sorted by wavelength. */
-function nearestLine(wavelengths: Float64Array, w: number): number {
-  let lo = 0;
-  let hi = wavelengths.length - 1;
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if (wavelengths[mid]! < w) lo = mid;
-    else hi = mid;
-  }
-  return Math.abs(wavelengths[lo]! - w) <= Math.abs(wavelengths[hi]! - w) ? lo : hi;
-}
-
 /**
  * One-to-one matches of the peaks within `region` pixels of the centre to lines whose predicted
  * position lies within `tolPx`; when two peaks claim a line the closer one keeps it.
@@ -51,7 +40,7 @@ export function matchPeaks(peaks: MatchPeak[], wavelengths: Float64Array, model:
     const x = peaks[i]!.x;
     if (Math.abs(x - centre) > region) continue;
     const w = evalLegendre1D(model, x);
-    const j = nearestLine(wavelengths, w);
+    const j = nearestIndex(wavelengths, w);
     const dist = Math.abs(wavelengths[j]! - w) / Math.abs(legendre1DStep(model, x));
     if (!(dist <= tolPx)) continue;
     const prev = owner.get(j);

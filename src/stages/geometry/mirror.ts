@@ -5,7 +5,7 @@
  * r_i = v_i + u(2c - y_i) - 2 v_sys, with variance e_i^2 + var(u); v_sys minimises chi-square in
  * closed form for each c.
  */
-import { madSigma, median } from '../../kernels/index.js';
+import { lowerIndex, madSigma, median } from '../../kernels/index.js';
 
 /** Points of the curve sorted by row: internal row (fractional), v_los (km/s), error (km/s). */
 export interface PvSamples {
@@ -43,19 +43,12 @@ function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, 
   const n = y.length;
   if (!(m >= y[0]! && m <= y[n - 1]!)) return false;
   const h = p.kernelRows;
-  const reach = h;
-  let lo = 0;
-  let hi = n;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if (y[mid]! < m - reach) lo = mid + 1;
-    else hi = mid;
-  }
+  const lo = lowerIndex(y, m - h);
   // Weighted sums of the local linear fit in x = y - m; the value at m is the intercept.
   let s0 = 0;
   let s1 = 0;
   let s2 = 0;
-  for (let k = lo; k < n && y[k]! <= m + reach; k++) {
+  for (let k = lo; k < n && y[k]! <= m + h; k++) {
     if (active[k] === 0 || k === skip) continue;
     const x = y[k]! - m;
     const q = 1 - (x / h) ** 2;
@@ -69,7 +62,7 @@ function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, 
   // Equivalent kernel: l_k = w_k (s2 - s1 x_k) / det.
   let value = 0;
   let variance = 0;
-  for (let k = lo; k < n && y[k]! <= m + reach; k++) {
+  for (let k = lo; k < n && y[k]! <= m + h; k++) {
     if (active[k] === 0 || k === skip) continue;
     const x = y[k]! - m;
     const q = 1 - (x / h) ** 2;

@@ -4,12 +4,13 @@
  * and for the report.
  */
 import { median } from '../../kernels/robust.js';
+import { lowerIndex } from '../../kernels/sorted-search.js';
 import { GALAXY_LINES } from '../../physics/catalogues.js';
 import { SPEED_OF_LIGHT_KMS as C } from '../../physics/constants.js';
 import type { BinSpectrum } from './bin-spectrum.js';
 import { fitGroup, type GroupFit, type Window } from './fit-group.js';
 import type { GroupSpec } from './group-model.js';
-import { lowerIndex, quickFlux } from './quick-flux.js';
+import { quickFlux } from './quick-flux.js';
 import type { LineSettings } from './settings.js';
 
 const OTHER_LINES = Object.values(GALAXY_LINES);

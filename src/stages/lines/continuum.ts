@@ -1,7 +1,7 @@
 /** Continuum per row: the median over good pixels away from the emission lines (electrons per pixel). */
 import { medianOfBuffer } from '../../kernels/robust.js';
+import { lowerIndex } from '../../kernels/sorted-search.js';
 import type { CalibratedFrame } from '../../products/frame.js';
-import { lowerIndex } from './quick-flux.js';
 
 /**
  * `exclude`: wavelength intervals (Angstrom) to leave out, e.g. each line +- its velocity range;

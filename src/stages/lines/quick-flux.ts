@@ -5,6 +5,7 @@
  * 4-8 sigma either side. Used to grow bins and to weight rows, not as a measurement.
  */
 import { medianOfBuffer } from '../../kernels/robust.js';
+import { lowerIndex } from '../../kernels/sorted-search.js';
 
 export interface SpectrumView {
   wave: Float64Array;
@@ -17,18 +18,6 @@ export interface SpectrumView {
 
 const scratch = new Float64Array(512);
 const INV_ROOT_2PI = 1 / Math.sqrt(2 * Math.PI);
-
-/** Index of the first wave >= lambda (wave increasing). */
-export function lowerIndex(wave: Float64Array, lambda: number): number {
-  let lo = 0;
-  let hi = wave.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >> 1;
-    if (wave[mid]! < lambda) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
 
 export function quickFlux(s: SpectrumView, centre: number, sigma: number): { flux: number; err: number; snr: number } {
   const n = s.wave.length;
