@@ -5,3 +5,4 @@ export { reduceRun, selectTargets, type ReduceOptions, type ReduceResult } from 
 export type { RunEvent, EventSink, TargetStatus } from './events.js';
 export type { RunSummary, SummaryEntry, KeyNumbers, DiagnosticCounts } from './summary.js';
 export { jsonProgress, plainProgress, liveProgress } from './progress/index.js';
+export { rebuildReports } from './report-files.js';
