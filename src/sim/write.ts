@@ -1,5 +1,5 @@
 /** Writing a simulated run to a folder: raw/*.fits, truth.json, run.yaml and, if kept, expected/*.fits. */
-import { mkdirSync, renameSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readdirSync, renameSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { expectedToFits, simFrameToFits } from './convert.js';
 import { trimmedSize } from './detector.js';
@@ -16,6 +16,27 @@ function writeAtomic(path: string, data: Uint8Array | string): void {
 /** truth.json text: indented objects, arrays of numbers on one line each. */
 export function truthJson(run: SimulatedRun): string {
   return `${JSON.stringify(run.truth, null, 1).replace(/\[\s+([-+\d.eE,\s]+?)\s+\]/g, (_, inner: string) => `[${inner.replace(/\s+/g, '')}]`)}\n`;
+}
+
+/** Files under `dir` (relative names, '/'-separated) in the folders a run writes to, or none when absent. */
+function filesIn(dir: string, folder: string): string[] {
+  try {
+    return readdirSync(join(dir, folder), { recursive: true, withFileTypes: true })
+      .filter((e) => e.isFile())
+      .map((e) => join(e.parentPath, e.name).slice(dir.length + 1).split('\\').join('/'));
+  } catch {
+    return [];
+  }
+}
+
+/**
+ * Files in `dir`'s raw/ and expected/ folders that writing `run` would not replace: left by another
+ * run, they would be picked up by the globs of the new run.yaml (raw/sci_*.fits).
+ */
+export function staleRunFiles(run: SimulatedRun, dir: string): string[] {
+  const written = new Set(run.frames.map((f) => f.name));
+  if (run.expected) for (const name of run.expected.keys()) written.add(`expected/${basename(name)}`);
+  return [...filesIn(dir, 'raw'), ...filesIn(dir, 'expected')].filter((name) => !written.has(name)).sort();
 }
 
 /**

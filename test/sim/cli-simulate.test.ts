@@ -58,4 +58,14 @@ describe('whorl simulate', () => {
       expect(r.err).not.toMatch(/internal error|\n\s+at /);
     }
   });
+
+  it('refuses a folder that holds frames of another run (its globs would mix them in); the same run again is fine', async () => {
+    const out = join(base, 'reused');
+    expect((await whorl('simulate', '--out', out, '--targets', '2')).code).toBe(0);
+    expect((await whorl('simulate', '--out', out, '--targets', '2')).code).toBe(0);
+    const r = await whorl('simulate', '--out', out);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/reused, --out: the folder holds files this run would not replace.*raw\/sci_004\.fits/);
+    expect(readdirSync(join(out, 'raw')).filter((n) => n.startsWith('sci_'))).toHaveLength(6);
+  });
 });
