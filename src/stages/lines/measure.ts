@@ -12,10 +12,11 @@ import { evalLegendre2D } from '../../kernels/legendre.js';
 import { median } from '../../kernels/robust.js';
 import { lowerIndex } from '../../kernels/sorted-search.js';
 import { SPEED_OF_LIGHT_KMS as C } from '../../physics/constants.js';
-import { MASK_BITS, type CalibratedFrame, type StageResult } from '../../products/frame.js';
+import type { CalibratedFrame, StageResult } from '../../products/frame.js';
 import { LINE_FLAGS, type BinFit, type LineMeasurement, type LineTable, type RowBin, type SkyModel } from '../../products/lines.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
 import { requireSameGrid } from '../arc/same-grid.js';
+import { BAD_PIXEL_BITS } from '../sky/subtract.js';
 import { fitBinGroups, refitHeldWidth, type GroupWindow, type InstrumentalSigma, type VelocityState } from './bin-fits.js';
 import { BinSpectrum } from './bin-spectrum.js';
 import { continuumProfile } from './continuum.js';
@@ -25,7 +26,6 @@ import { guessVelocity } from './redshift-guess.js';
 import type { LineSettings } from './settings.js';
 import { binRows, type BinRecord, type WalkContext } from './walk.js';
 
-const BAD = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
 /** Starting intrinsic dispersion of the gas (km/s), common practice for disk H II regions. */
 const START_DISPERSION_KMS = 20;
 
@@ -48,21 +48,21 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   };
 
   // Centre row: the continuum peak in the galaxy region (5-row running mean), else the emission peak.
-  const allColumns = continuumProfile(frame, wave, [], BAD, 4);
+  const allColumns = continuumProfile(frame, wave, [], BAD_PIXEL_BITS, 4);
   const centreRow = findCentreRow(allColumns, sky);
 
   // Starting velocity.
-  const central = new BinSpectrum(frame, wave, BAD);
+  const central = new BinSpectrum(frame, wave, BAD_PIXEL_BITS);
   for (let y = Math.max(0, centreRow - 2); y <= Math.min(height - 1, centreRow + 2); y++) central.addRow(y, 1);
-  const instCentre = instrumental(width / 2, centreRow);
+  const startSigmaAngstrom = Math.hypot(instrumental(width / 2, centreRow), (START_DISPERSION_KMS / C) * binRest);
   let vStart = settings.redshiftGuessKms ?? null;
   if (vStart === null) {
     const others = specs[binGroup]!.rest.filter((_, k) => k !== binMember);
-    vStart = guessVelocity(central, binRest, others, Math.hypot(instCentre, (START_DISPERSION_KMS / C) * binRest));
+    vStart = guessVelocity(central, binRest, others, startSigmaAngstrom);
     if (vStart === null) throw new StageError('lines', 'no-emission', `no ${binName} emission found near the centre row ${centreRow}; give lines.redshiftGuessKms (km/s) or check that the spectrum covers ${binName}`);
     log.info('velocity-guess', `starting velocity ${vStart.toFixed(1)} km/s from the strongest ${binName} peak near row ${centreRow}`, { place: { row: centreRow, line: binName } });
   }
-  const start: VelocityState = { vKms: vStart, sigmaKms: (C * Math.hypot(instCentre, (START_DISPERSION_KMS / C) * binRest)) / binRest };
+  const start: VelocityState = { vKms: vStart, sigmaKms: (C * startSigmaAngstrom) / binRest };
 
   const restMin = Math.min(...specs.flatMap((g) => g.rest));
   const restMax = Math.max(...specs.flatMap((g) => g.rest));
@@ -78,7 +78,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
     const slack = Math.ceil(0.1 * (b - a)) + 10;
     return [a - slack, b + slack];
   };
-  const ctx: WalkContext = { frame, wave, badBits: BAD, settings, binRest, instrumental, fit: (bin, state) => fitBinGroups(bin, specs, state, settings, instrumental), binGroup, binMember, columns };
+  const ctx: WalkContext = { frame, wave, badBits: BAD_PIXEL_BITS, settings, binRest, instrumental, fit: (bin, state) => fitBinGroups(bin, specs, state, settings, instrumental), binGroup, binMember, columns };
   const records = binRows(ctx, centreRow, start);
   if (records.length === 0) throw new StageError('lines', 'no-emission', `${binName} never reached S/N 3 in any bin around row ${centreRow}, up to ${settings.maxBinRows} rows a bin; raise lines.maxBinRows, or give lines.redshiftGuessKms (km/s) if the starting velocity is off`);
 
@@ -120,7 +120,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   const zSys = 1 + vStart / C;
   const exclude = specs.flatMap((s) => s.rest.map((r): [number, number] => [r * zSys * (1 - 1000 / C), r * zSys * (1 + 1000 / C)]));
   return {
-    product: { bins, measurements, fits, continuumProfile: continuumProfile(frame, wave, exclude, BAD, 2), sky },
+    product: { bins, measurements, fits, continuumProfile: continuumProfile(frame, wave, exclude, BAD_PIXEL_BITS, 2), sky },
     diagnostics: log.items,
   };
 }

@@ -26,7 +26,8 @@ const EMISSION_HALF_ROWS = 4;
 /** Rounds of masking faint emission in the sky rows and refitting. */
 const EMISSION_ROUNDS = 2;
 
-const BAD = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
+/** Mask bits that keep a pixel out of the sky fit and, after it, out of the line fits (every bit: all of them spoil a spectrum). */
+export const BAD_PIXEL_BITS = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
 
 export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution, settings: SkySettings): StageResult<{ frame: CalibratedFrame; sky: SkyModel }> {
   const { width, height } = frame;
@@ -34,7 +35,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   checkSettings(settings);
   const log = new DiagnosticLog('sky');
   const good = new Uint8Array(width * height);
-  for (let i = 0; i < good.length; i++) good[i] = (frame.mask[i]! & BAD) === 0 && frame.var[i]! > 0 && Number.isFinite(frame.sci[i]!) ? 1 : 0;
+  for (let i = 0; i < good.length; i++) good[i] = (frame.mask[i]! & BAD_PIXEL_BITS) === 0 && frame.var[i]! > 0 && Number.isFinite(frame.sci[i]!) ? 1 : 0;
   const scratch = new Float64Array(width);
   const rowUsable = new Uint8Array(height);
   for (let y = 0; y < height; y++) {
