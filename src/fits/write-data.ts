@@ -6,6 +6,8 @@
 import { InputError } from '../errors.js';
 import type { ImageHduSpec, TableHduSpec } from './write-types.js';
 
+const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
+
 const INT_RANGE: Record<number, [number, number]> = { 8: [0, 255], 16: [-32768, 32767], 32: [-2147483648, 2147483647] };
 
 /** Stored integer value that marks NaN pixels, when the data have any: the type's minimum, which other values are then clipped above. */
@@ -32,6 +34,18 @@ export function encodeImage(spec: ImageHduSpec, out: Uint8Array, offset: number,
   const n = spec.width * spec.height;
   const d = spec.data;
   const view = new DataView(out.buffer, out.byteOffset + offset, n * (Math.abs(spec.bitpix) / 8));
+  if (spec.bitpix < 0 && LITTLE_ENDIAN && (out.byteOffset + offset) % 8 === 0) {
+    // Floats: copied (or converted, rounding as setFloat32 does) natively, then byte-swapped natively.
+    const bytes = Buffer.from(out.buffer, out.byteOffset + offset, n * (Math.abs(spec.bitpix) / 8));
+    if (spec.bitpix === -32) {
+      new Float32Array(out.buffer, out.byteOffset + offset, n).set(d); // d holds n values (checked by the writer)
+      bytes.swap32();
+    } else {
+      new Float64Array(out.buffer, out.byteOffset + offset, n).set(d);
+      bytes.swap64();
+    }
+    return;
+  }
   if (spec.bitpix === -32) {
     for (let i = 0; i < n; i++) view.setFloat32(4 * i, d[i]!);
     return;
