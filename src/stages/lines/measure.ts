@@ -24,7 +24,7 @@ import { groupSpecs } from './group-spec.js';
 import { toBinFit, toMeasurements } from './measurements.js';
 import { guessVelocity } from './redshift-guess.js';
 import type { LineSettings } from './settings.js';
-import { binRows, type BinRecord, type WalkContext } from './walk.js';
+import { binRows, MIN_BIN_SNR, type BinRecord, type WalkContext } from './walk.js';
 
 /** Starting intrinsic dispersion of the gas (km/s), common practice for disk H II regions. */
 const START_DISPERSION_KMS = 20;
@@ -80,7 +80,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   };
   const ctx: WalkContext = { frame, wave, badBits: BAD_PIXEL_BITS, settings, binRest, instrumental, fit: (bin, state) => fitBinGroups(bin, specs, state, settings, instrumental), binGroup, binMember, columns };
   const records = binRows(ctx, centreRow, start);
-  if (records.length === 0) throw new StageError('lines', 'no-emission', `${binName} never reached S/N 3 in any bin around row ${centreRow}, up to ${settings.maxBinRows} rows a bin; raise lines.maxBinRows, or give lines.redshiftGuessKms (km/s) if the starting velocity is off`);
+  if (records.length === 0) throw new StageError('lines', 'no-emission', `${binName} never reached S/N ${MIN_BIN_SNR} in any bin around row ${centreRow}, up to ${settings.maxBinRows} rows a bin; raise lines.maxBinRows, or give lines.redshiftGuessKms (km/s) if the starting velocity is off`);
 
   // Width held where S/N is low, at the median velocity width of the bins above freeWidthSnr; a
   // group with no such bin borrows the binning group's (same gas, nearly the same instrument).

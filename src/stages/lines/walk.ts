@@ -14,7 +14,7 @@ import { quickFlux } from './quick-flux.js';
 import type { LineSettings } from './settings.js';
 
 /** Bins below this quick S/N carry no usable line and are dropped (common practice for a detection). */
-const MIN_BIN_SNR = 3;
+export const MIN_BIN_SNR = 3;
 
 export interface WalkContext {
   frame: CalibratedFrame;
