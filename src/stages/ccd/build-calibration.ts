@@ -3,7 +3,8 @@
  * orientation and the calibrated arc. Pure: frames in, products and diagnostics out.
  */
 import { DiagnosticLog } from '../../diagnostics.js';
-import { InputError } from '../../errors.js';
+import { InputError, StageError } from '../../errors.js';
+import { medianOfBuffer } from '../../kernels/robust.js';
 import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from '../../products/frame.js';
 import { toInternal } from '../../products/orientation.js';
 import { combineBias } from './bias.js';
@@ -47,6 +48,11 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   if (!det.overscan) log.info('no-overscan', 'no overscan section (BIASSEC): the bias level comes from the bias frames alone');
   else log.info('overscan', `overscan fitted along raw ${arcTrim[0]!.overscanAlong} (Legendre order ${settings.overscanOrder}), RMS ${arcTrim[0]!.overscanRmsAdu.toFixed(3)} ADU about the fit`, { place: { file: frames.arc[0]!.path }, actual: arcTrim[0]!.overscanRmsAdu });
 
+  for (const f of frames.bias) {
+    const t = f.header.getNumber('EXPTIME');
+    // Common practice: a bias is a zero-second readout; an exposed frame adds light to every frame.
+    if (t !== undefined && t > 0) log.warn('bias-exposed', `bias frame with EXPTIME = ${t} s: a bias is a zero-second readout; is it a bias?`, { place: { file: f.path }, expected: 'EXPTIME = 0', actual: t });
+  }
   const bias = combineBias(frames.bias.map((f) => trimFrame(f, det, settings.overscanOrder, false)), det.gain, det.readNoiseE, tw, th, settings);
   if (bias.count === 0) log.warn('no-bias', 'no bias frames: only the overscan is subtracted');
   const minusBias = (data: Float32Array): Float32Array => {
@@ -68,6 +74,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   const flatsMinusBias = frames.flat.map((f) => minusBias(trimFrame(f, det, settings.overscanOrder, false).data));
   const combinedFlat = flatsMinusBias.length > 0 ? combineFlats(flatsMinusBias, det.gain, det.readNoiseE, settings) : null;
   flatsMinusBias.length = 0;
+  if (combinedFlat) checkFlatLit(combinedFlat.data, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
   const bad = findBadColumns(bias.count > 0 ? bias.data : null, combinedFlat?.data ?? null, tw, th, det.readNoiseE / det.gain, settings.badColumnSigma);
   const badRaw = new Uint16Array(tw * th);
   for (const x of bad.columns) for (let y = 0; y < th; y++) badRaw[y * tw + x] = MASK_BITS.badColumn;
@@ -119,4 +126,21 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     badColumns: bad.columns, reference, overscanModel, axisRatio: evidence.ratio,
   };
   return { product, diagnostics: log.items };
+}
+
+/** A lamp flat well exposed over most of the detector: median above this many read-noise sigmas (common practice: flats hold thousands of ADU). */
+const FLAT_MIN_MEDIAN_SIGMAS = 20;
+
+/**
+ * The combined flat (ADU above the bias) must hold lamp light: normalising noise by a fit to noise
+ * gives a flat of random factors. A StageError names the frames (most often bias or dark frames
+ * listed as flats); the sample of every 16th pixel is plenty for a median.
+ */
+function checkFlatLit(flat: Float32Array, readNoiseAdu: number, paths: string[]): void {
+  const step = 16;
+  const sample = new Float32Array(Math.ceil(flat.length / step));
+  for (let i = 0, k = 0; i < flat.length; i += step) sample[k++] = flat[i]!;
+  const level = medianOfBuffer(sample, sample.length);
+  if (level >= FLAT_MIN_MEDIAN_SIGMAS * readNoiseAdu) return;
+  throw new StageError('ccd', 'flat-unlit', `the flat frames (${paths.join(', ')}) hold no lamp light: median ${level.toFixed(1)} ADU above the bias, below ${FLAT_MIN_MEDIAN_SIGMAS} times the read noise (${(FLAT_MIN_MEDIAN_SIGMAS * readNoiseAdu).toFixed(1)} ADU); check that they are lamp flats`);
 }

@@ -4,7 +4,7 @@ import { buildCalibration } from '../../../src/stages/ccd/build-calibration.js';
 import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
 import { checkCcdSettings, DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
 import { formatSection, parseSection } from '../../../src/stages/ccd/section.js';
-import { InputError } from '../../../src/errors.js';
+import { InputError, StageError } from '../../../src/errors.js';
 import { arcSignal, flatSignal, syntheticFrame, type SyntheticOptions } from './synthetic.js';
 
 function calibrationFrames(o: SyntheticOptions = {}) {
@@ -61,6 +61,24 @@ describe('calibration inputs', () => {
     const h = caught(() => buildCalibration(calibrationFrames({ datasec: '[1:44,1:30]' }), DEFAULT_CCD_SETTINGS));
     expect(h.code).toBe('ccd.section-overlap');
     expect(h.place.key).toBe('BIASSEC');
+  });
+  it('flats without lamp light (bias frames listed as flats) are a StageError naming them, not a flat of random factors', () => {
+    const frames = { ...calibrationFrames(), flat: [syntheticFrame('raw/b3.fits', () => 0.5), syntheticFrame('raw/b4.fits', () => -0.5)] };
+    let error: unknown;
+    try {
+      buildCalibration(frames, DEFAULT_CCD_SETTINGS);
+    } catch (e) {
+      error = e;
+    }
+    expect(error).toBeInstanceOf(StageError);
+    expect((error as StageError).code).toBe('flat-unlit');
+    expect((error as StageError).message).toMatch(/raw\/b3\.fits, raw\/b4\.fits\) hold no lamp light/);
+    expect(() => buildCalibration(calibrationFrames(), DEFAULT_CCD_SETTINGS)).not.toThrow();
+  });
+  it('an exposed frame listed as a bias is a warning naming it (common practice: a bias is a zero-second readout)', () => {
+    const zero = { ...calibrationFrames(), bias: [syntheticFrame('raw/b1.fits', () => 0, { exptime: 0 }), syntheticFrame('raw/s9.fits', () => 0, { exptime: 600 })] };
+    const warned = buildCalibration(zero, DEFAULT_CCD_SETTINGS).diagnostics.filter((d) => d.rule === 'ccd.bias-exposed');
+    expect(warned.map((d) => [d.severity, d.place?.file, d.actual])).toEqual([['warning', 'raw/s9.fits', 600]]);
   });
   it('no arc frames is an error', () => {
     expect(caught(() => buildCalibration({ ...calibrationFrames(), arc: [] }, DEFAULT_CCD_SETTINGS)).code).toBe('ccd.no-arc');
