@@ -4,7 +4,6 @@
  * and the variations of the robustness matrix: flipped direction, lines removed, spurious peaks,
  * saturated lines.
  */
-import { Header } from '../../../src/fits/header.js';
 import { loadLampLines, type LampLine } from '../../../src/physics/catalogues.js';
 import { MASK_BITS, type CalibratedFrame } from '../../../src/products/frame.js';
 import { addUniformLines } from '../../../src/sim/light.js';
@@ -14,6 +13,7 @@ import { lineShiftPx, type SetupTruth } from '../../../src/sim/truth.js';
 import { evalLegendre1D } from '../../../src/kernels/legendre.js';
 import { Rng } from '../../../src/kernels/random.js';
 import { DEFAULT_ARC_SETTINGS, type ArcSettings } from '../../../src/stages/arc/index.js';
+import { noisyFrame } from './noisy-frame.js';
 import type { WavelengthSolution } from '../../../src/products/wavelength.js';
 
 export interface SyntheticArcOptions {
@@ -72,29 +72,8 @@ export function syntheticArc(o: SyntheticArcOptions = {}): SyntheticArc {
       mask[i] = MASK_BITS.saturated;
     }
   }
-  const sci = new Float32Array(W * H);
-  const variance = new Float32Array(W * H);
-  for (let i = 0; i < sci.length; i++) {
-    const v = Math.max(signal[i]!, 0) + rn * rn;
-    variance[i] = v;
-    sci[i] = signal[i]! + rng.normal() * Math.sqrt(v);
-  }
-  if (o.flip) for (const a of [sci, variance, mask]) for (let y = 0; y < H; y++) a.subarray(y * W, (y + 1) * W).reverse();
-  const header = new Header();
-  const frame: CalibratedFrame = {
-    width: W,
-    height: H,
-    sci,
-    var: variance,
-    mask,
-    orientation: { transpose: false, flipX: false },
-    section: { x0: 0, x1: W, y0: 0, y1: H },
-    header,
-    exposures: [{ path: 'raw/arc-test.fits', header, dateObs: '2019-04-12T22:00:00', exptimeS: 5 }],
-    exptimeS: 5,
-    gain: 1,
-    readNoiseE: rn,
-  };
+  const frame = noisyFrame(signal, W, H, rng, { readNoiseE: rn, exptimeS: 5, exposure: { path: 'raw/arc-test.fits', dateObs: '2019-04-12T22:00:00' }, mask });
+  if (o.flip) for (const a of [frame.sci, frame.var, frame.mask]) for (let y = 0; y < H; y++) a.subarray(y * W, (y + 1) * W).reverse();
   return { frame, setup, lampLines, trueWave: (x, y) => evalLegendre1D(setup.dispersion, x - lineShiftPx(setup, y)) };
 }
 

@@ -3,7 +3,6 @@
  * sky of config/lines/sky.txt displaced by a known shift (the flexure between arc and science),
  * a sky continuum, and a galaxy in the central rows with an emission line next to a sky line.
  */
-import { Header } from '../../../src/fits/header.js';
 import { skyLines } from '../../../src/physics/catalogues.js';
 import type { CalibratedFrame } from '../../../src/products/frame.js';
 import { addPixelGaussian } from '../../../src/sim/erf.js';
@@ -11,6 +10,7 @@ import { addUniformLines } from '../../../src/sim/light.js';
 import { pixelOfWavelength } from '../../../src/sim/optics.js';
 import { Rng } from '../../../src/kernels/random.js';
 import { trueLsfSigmaPx, type SetupTruth } from '../../../src/sim/truth.js';
+import { noisyFrame } from './noisy-frame.js';
 
 export interface SyntheticSkyOptions {
   seed: number;
@@ -47,26 +47,5 @@ export function syntheticSky(setup: SetupTruth, o: SyntheticSkyOptions): Calibra
     }
   }
   const rn = 4;
-  const sci = new Float32Array(W * H);
-  const variance = new Float32Array(W * H);
-  for (let i = 0; i < sci.length; i++) {
-    const v = Math.max(signal[i]!, 0) + rn * rn;
-    variance[i] = v;
-    sci[i] = signal[i]! + rng.normal() * Math.sqrt(v);
-  }
-  const header = new Header();
-  return {
-    width: W,
-    height: H,
-    sci,
-    var: variance,
-    mask: new Uint16Array(W * H),
-    orientation: { transpose: false, flipX: false },
-    section: { x0: 0, x1: W, y0: 0, y1: H },
-    header,
-    exposures: [{ path: 'raw/science-test.fits', header, dateObs: '2019-04-13T01:00:00', exptimeS: 1200 }],
-    exptimeS: 1200,
-    gain: 1,
-    readNoiseE: rn,
-  };
+  return noisyFrame(signal, W, H, rng, { readNoiseE: rn, exptimeS: 1200, exposure: { path: 'raw/science-test.fits', dateObs: '2019-04-13T01:00:00' } });
 }

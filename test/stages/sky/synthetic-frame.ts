@@ -4,12 +4,12 @@
  * rotation; noise drawn from the variance. Lines are integrated over pixels (as the simulator
  * renders them). Truth is returned for checking.
  */
-import { Header } from '../../../src/fits/header.js';
 import type { CalibratedFrame } from '../../../src/products/frame.js';
 import type { WavelengthSolution } from '../../../src/products/wavelength.js';
 import { SPEED_OF_LIGHT_KMS } from '../../../src/physics/constants.js';
 import { addPixelGaussian } from '../../../src/sim/erf.js';
 import { Rng } from '../../../src/kernels/random.js';
+import { noisyFrame } from '../arc/noisy-frame.js';
 
 export interface SyntheticOptions {
   width?: number;
@@ -106,19 +106,8 @@ export function makeSyntheticFrame(opts: SyntheticOptions = {}): SyntheticFrame 
     for (let x = 0; x < W; x++) galaxy[row + x] += galRow[x]!;
   }
 
-  const rng = new Rng(o.seed);
-  const sci = new Float32Array(W * H);
-  const variance = new Float32Array(W * H);
-  for (let i = 0; i < W * H; i++) {
-    const expected = sky[i]! + galaxy[i]!;
-    variance[i] = expected + o.readNoise * o.readNoise;
-    sci[i] = expected + Math.sqrt(variance[i]!) * rng.normal();
-  }
-  const frame: CalibratedFrame = {
-    width: W, height: H, sci, var: variance, mask: new Uint16Array(W * H),
-    orientation: { transpose: false, flipX: false }, section: { x0: 0, x1: W, y0: 0, y1: H },
-    header: new Header(), exposures: [], exptimeS: 1200, gain: 1, readNoiseE: o.readNoise,
-  };
+  const expected = Float32Array.from(sky, (s, i) => s + galaxy[i]!);
+  const frame = noisyFrame(expected, W, H, new Rng(o.seed), { readNoiseE: o.readNoise, exptimeS: 1200 });
   const solution: WavelengthSolution = {
     width: W, height: H, wave,
     model: { kind: 'legendre2d', xOrder: 1, yOrder: 1, xMin: 0, xMax: W - 1, yMin: 0, yMax: H - 1, coeffs: [lambdaAt((W - 1) / 2, (H - 1) / 2), (o.dispersion * (W - 1)) / 2, (o.dispersion * o.tiltPx * (H - 1)) / (2 * H), 0] },
