@@ -85,10 +85,11 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
 
   const vars = exposures.map((e) => e.var);
   const masks = exposures.map((e) => e.mask);
-  // One exposure: its own arrays become the product (nothing else holds them).
-  const sci = nExp === 1 ? scis[0]! : new Float32Array(n);
-  const variance = nExp === 1 ? vars[0]! : new Float32Array(n);
-  const mask = nExp === 1 ? masks[0]! : new Uint16Array(n);
+  // The first exposure's arrays become the product (the exposures are consumed): pixel p is
+  // written only after every exposure's values at p are read, so nothing is overwritten too early.
+  const sci = scis[0]!;
+  const variance = vars[0]!;
+  const mask = masks[0]!;
   const rejected = new Uint8Array(nExp === 1 ? 0 : n);
   let grown = 0;
   for (let p = 0; p < n; p++) {

@@ -39,13 +39,15 @@ export interface CalibratedExposure {
  * flat are the same in every exposure, so the combination adds them once (combine-exposures.ts).
  */
 export function calibrateExposure(trimmed: TrimmedFrame, cal: ExposureCalibration): CalibratedExposure {
-  const o = toInternal(trimmed.data, trimmed.width, trimmed.height, cal.orientation);
-  const m = toInternal(trimmed.mask, trimmed.width, trimmed.height, cal.orientation);
+  // `trimmed` is consumed: in the usual orientation its arrays become the product (no copies on full frames).
+  const same = !cal.orientation.transpose && !cal.orientation.flipX;
+  const o = same ? trimmed : toInternal(trimmed.data, trimmed.width, trimmed.height, cal.orientation);
+  const m = same ? { data: trimmed.mask } : toInternal(trimmed.mask, trimmed.width, trimmed.height, cal.orientation);
   if (o.width !== cal.width || o.height !== cal.height) {
     throw new RangeError(`calibrateExposure: frame ${o.width} x ${o.height} against calibration ${cal.width} x ${cal.height}`);
   }
   const n = cal.width * cal.height;
-  const sci = o.data; // reused in place: the oriented copy is ours
+  const sci = o.data; // reused in place: the oriented copy (or the consumed trimmed frame) is ours
   const variance = new Float32Array(n);
   const mask = m.data;
   const g = cal.gain;
