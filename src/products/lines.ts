@@ -34,6 +34,7 @@ export interface RowBin {
 }
 
 export interface LineMeasurement {
+  /** Index into LineTable.bins. */
   bin: number;
   /** Manifest name, e.g. `Halpha`. */
   line: string;
@@ -55,16 +56,22 @@ export interface LineMeasurement {
   /** Integrated line flux in electrons and its error. */
   flux: number;
   fluxErr: number;
+  /** flux / fluxErr (0 when the error is not positive). */
   snr: number;
+  /** Chi-square per degree of freedom of the group fit this line took part in. */
   chi2Reduced: number;
+  /** Sum of LINE_FLAGS bits. */
   flags: number;
 }
 
 /** The data and model of one bin's group fit, for the report's small multiples. */
 export interface BinFit {
+  /** Index into LineTable.bins, and the tied group's name. */
   bin: number;
   group: string;
+  /** Air wavelength of each pixel of the fit window (Angstrom). */
   wavelength: Float64Array;
+  /** Summed bin spectrum, its 1-sigma error and the fitted model, electrons per pixel. */
   data: Float32Array;
   error: Float32Array;
   model: Float32Array;
