@@ -13,6 +13,7 @@ export interface BarycentricInfo {
 }
 
 export interface VelocityPoint {
+  /** Index into LineTable.bins; rows as there (internal, 0-based, inclusive; yCentre flux-weighted, fractional). */
   bin: number;
   rowStart: number;
   rowEnd: number;
@@ -20,6 +21,7 @@ export interface VelocityPoint {
   /** Line-of-sight velocity (km/s), error-weighted over the lines of the bin. */
   vLos: number;
   vLosErr: number;
+  /** OR of the LINE_FLAGS bits of the lines used. */
   flags: number;
 }
 
@@ -41,10 +43,12 @@ export interface Geometry {
   /** Axis ratio b/a and intrinsic thickness q0 when the inclination came from them. */
   axisRatio?: number;
   intrinsicThickness?: number;
+  /** Position angles of the major axis and of the slit (deg, east of north). */
   majorAxisPaDeg: number;
   slitPaDeg: number;
   /** Slit position angle minus major-axis position angle (deg). */
   slitToMajorDeg: number;
+  /** Distance (Mpc), plate scale along the slit (arcsec per pixel) and the kpc per arcsec at that distance. */
   distanceMpc: number;
   arcsecPerPixel: number;
   kpcPerArcsec: number;
