@@ -18,6 +18,8 @@ import { medianOfBuffer } from '../../kernels/robust.js';
 /** Penalty weight relative to the mean diagonal of the normal matrix (small: fills gaps, hardly bends fitted parts). */
 const PENALTY = 1e-6;
 const BAND = 3;
+/** Rows between those that set the slit factor g: g is smooth along the slit and each row's median is already precise. */
+const SLIT_ROW_STEP = 4;
 
 export interface SkyFitInput {
   width: number;
@@ -53,8 +55,7 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
   const dispersion = (hi - lo) / Math.max(1, width - 1);
   const slit = new Float64Array(height).fill(1);
   if (order > 0) {
-    // g needs few pixels: every fourth row is plenty.
-    const coarse = fitSpline(input, UniformCubicBSpline.covering(lo, hi, dispersion), slit, null, clipSigma, Math.max(rowStep, 4));
+    const coarse = fitSpline(input, UniformCubicBSpline.covering(lo, hi, dispersion), slit, null, clipSigma, Math.max(rowStep, SLIT_ROW_STEP));
     if (coarse === null) return null;
     fitSlit(input, coarse, order);
   }
@@ -155,8 +156,7 @@ function fitSlit(input: SkyFitInput, fit: SkySpline, order: number): void {
   const rows: number[] = [];
   const values: number[] = [];
   const b = new Float64Array(4);
-  // Every fourth row: g is smooth along the slit and each row's median is already precise.
-  for (let y = 0; y < height; y += 4) {
+  for (let y = 0; y < height; y += SLIT_ROW_STEP) {
     let n = 0;
     for (let x = 0; x < width; x++) {
       const i = y * width + x;
