@@ -56,14 +56,45 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
   if (nExp > 1) {
     const values = new Float64Array(nExp);
     const test: KeptTest = { values, t, nExp, constant: 0, flat: 1, rel2, threshold };
+    // keptAgainstOthers(test, all) written out for the loop, with its pixel-independent sums
+    // taken once (the same expressions in the same order, so the same decisions).
+    let sumTAll = 0;
+    let sumT2All = 0;
+    for (let j = 0; j < nExp; j++) {
+      sumTAll += t[j]!;
+      sumT2All += t[j]! * t[j]!;
+    }
+    const othersT = new Float64Array(nExp);
+    const othersT2 = new Float64Array(nExp);
+    for (let i = 0; i < nExp; i++) {
+      othersT[i] = sumTAll - t[i]!;
+      othersT2[i] = sumT2All - t[i]! * t[i]!;
+    }
+    const flat = cal.masterFlat;
     for (let p = 0; p < n; p++) {
-      for (let i = 0; i < nExp; i++) values[i] = scis[i]![p]!;
-      const f = cal.masterFlat[p]!;
-      test.constant = k0 / (f * f);
-      test.flat = f;
+      let sumV = 0;
+      for (let i = 0; i < nExp; i++) {
+        const v = scis[i]![p]!;
+        values[i] = v;
+        sumV += v;
+      }
+      const f = flat[p]!;
+      const constant = k0 / (f * f);
       // Most pixels: every exposure agrees with the others; otherwise search from a low order statistic.
-      let kept = keptAgainstOthers(test, all);
+      let kept = all;
+      for (let i = 0; i < nExp; i++) {
+        const ti = t[i]!;
+        const oT = othersT[i]!;
+        const rate = (sumV - values[i]!) / oT;
+        const rp = rate > 0 ? rate : 0;
+        const refVar = (nExp - 1) * constant + (rp * oT) / f + rel2 * rp * rp * othersT2[i]!;
+        const e = rp * ti;
+        const variance = constant + e / f + rel2 * e * e + (refVar * ti * ti) / (oT * oT);
+        if (!(values[i]! - rate * ti <= threshold * Math.sqrt(variance))) kept &= ~(1 << i);
+      }
       if (kept !== all) {
+        test.constant = constant;
+        test.flat = f;
         for (let i = 0; i < nExp; i++) rates[i] = values[i]! / t[i]!;
         const startRate = orderStatistic(rates, nExp, startRank);
         kept = 0;
