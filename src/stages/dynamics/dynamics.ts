@@ -4,18 +4,14 @@
  * and its two neighbours; NaN at the ends), and the shape from the outer slope.
  */
 import { G_KPC_KMS2_PER_MSUN, enclosedMassMsun } from '../../physics/index.js';
-import type { CurvePoint, CurveShape, DynamicsPoint } from '../../products/curve.js';
+import type { CurvePoint, DynamicsPoint, RotationCurve } from '../../products/curve.js';
 import { DiagnosticLog, type Diagnostic } from '../../diagnostics.js';
 import { DEFAULT_DYNAMICS_SETTINGS, type DynamicsSettings } from './settings.js';
 import { fitLogSlope } from './log-slope.js';
 import { SHAPE_SENTENCES, classifyShape } from './shape.js';
 
-export interface DynamicsResult {
-  dynamics: DynamicsPoint[];
-  shape: CurveShape;
-  outerLogSlope: number;
-  outerLogSlopeErr: number;
-  shapeSummary: string;
+/** The curve's dynamics fields as the RotationCurve product holds them, and the diagnostics. */
+export interface DynamicsResult extends Pick<RotationCurve, 'dynamics' | 'shape' | 'outerLogSlope' | 'outerLogSlopeErr' | 'shapeSummary'> {
   diagnostics: Diagnostic[];
 }
 
