@@ -3,9 +3,9 @@
  * lambda(x, y) fitted to every traced position with clipping (y order chosen by the data or set).
  */
 import { StageError } from '../../errors.js';
-import { legendre1DStep, legendre2DStepX, type Legendre2D } from '../../kernels/legendre.js';
+import { legendre1DStep, legendre2DStepX } from '../../kernels/legendre.js';
 import { fitLegendre2D } from '../../kernels/legendre-fit.js';
-import type { ArcLineMeasurement } from '../../products/wavelength.js';
+import type { ArcLineMeasurement, WavelengthSolution } from '../../products/wavelength.js';
 import type { BandSpectra } from './band-spectra.js';
 import { isClean, type ArcPeak } from './centroids.js';
 import type { CentralSolution } from './central-solution.js';
@@ -14,15 +14,8 @@ import { chooseOrderY } from './order-choice.js';
 import type { ArcSettings } from './settings.js';
 import { traceLines, type TracePeak } from './trace.js';
 
-export interface SlitFit {
-  model: Legendre2D;
-  /** Every traced position, with its residual and whether the clipping kept it. */
-  lines: ArcLineMeasurement[];
-  /** RMS of the kept residuals, Angstrom and pixels. */
-  rmsAngstrom: number;
-  rmsPx: number;
-  /** Laboratory wavelengths of the outermost kept lines, Angstrom. */
-  identifiedRange: [number, number];
+/** The solution's model, traced positions (kept or clipped), RMS and identified range, as WavelengthSolution holds them. */
+export interface SlitFit extends Pick<WavelengthSolution, 'model' | 'lines' | 'rmsAngstrom' | 'rmsPx' | 'identifiedRange'> {
   /** chi2 / dof of the kept positions with their centroid errors (plus the floor): near 1 when the model fits. */
   reducedChi2: number;
   /** Bands with at least one traced position, and distinct lines kept. */
