@@ -14,6 +14,7 @@ import { UniformCubicBSpline } from '../../kernels/bspline.js';
 import { evalLegendre1D } from '../../kernels/legendre.js';
 import { fitLegendre1D } from '../../kernels/legendre-fit.js';
 import { medianOfBuffer } from '../../kernels/robust.js';
+import type { CalibratedFrame } from '../../products/frame.js';
 
 /** Penalty weight relative to the mean diagonal of the normal matrix (small: fills gaps, hardly bends fitted parts). */
 const PENALTY = 1e-6;
@@ -21,11 +22,8 @@ const BAND = 3;
 /** Rows between those that set the slit factor g: g is smooth along the slit and each row's median is already precise. */
 const SLIT_ROW_STEP = 4;
 
-export interface SkyFitInput {
-  width: number;
-  height: number;
-  sci: Float32Array;
-  var: Float32Array;
+/** The frame's pixels (electrons, variance electrons^2), their air wavelengths (Angstrom) and which may be used. */
+export interface SkyFitInput extends Pick<CalibratedFrame, 'width' | 'height' | 'sci' | 'var'> {
   wave: Float64Array;
   /** 1 where a pixel may be used (a good pixel of a sky row); updated by the clipping. */
   use: Uint8Array;
