@@ -14,7 +14,7 @@ import { SPEED_OF_LIGHT_KMS } from '../../physics/constants.js';
 import type { SkyLine } from '../../physics/catalogues.js';
 import type { CalibratedFrame, StageResult } from '../../products/frame.js';
 import type { FlexureMeasurement, WavelengthSolution } from '../../products/wavelength.js';
-import type { FlexureSettings } from './settings.js';
+import { checkFlexureSettings, type FlexureSettings } from './settings.js';
 import { requireSameGrid } from './same-grid.js';
 import { givenSkyRows, skyRowMask } from './sky-rows.js';
 
@@ -76,6 +76,7 @@ function stackAround(frame: CalibratedFrame, wave: Float64Array, sky: Uint8Array
 
 export function measureFlexure(science: CalibratedFrame, solution: WavelengthSolution, skyLines: SkyLine[], settings: FlexureSettings): StageResult<WavelengthSolution> {
   requireSameGrid(science, solution);
+  checkFlexureSettings(settings);
   const log = new DiagnosticLog('arc');
   const file = science.exposures[0]?.path;
   const place = file ? { file } : {};

@@ -73,11 +73,22 @@ export interface FlexureSettings {
 
 export const DEFAULT_FLEXURE_SETTINGS: FlexureSettings = Object.freeze({ minSnr: 5, searchAngstrom: 4, galaxyRowSigma: 5 });
 
+function bad(key: string, expected: string, actual: unknown): never {
+  throw new InputError('arc.settings', `invalid arc setting ${key}`, { key }, { expected, actual: String(actual) });
+}
+
+/** Throw InputError on flexure settings no science frame could satisfy, naming the setting. */
+export function checkFlexureSettings(s: FlexureSettings): void {
+  if (!(s.minSnr >= 0)) bad('minSnr', 'a signal-to-noise >= 0', s.minSnr);
+  if (!(s.searchAngstrom > 0)) bad('searchAngstrom', 'Angstrom > 0', s.searchAngstrom);
+  if (!(s.galaxyRowSigma > 0)) bad('galaxyRowSigma', 'a number of sigmas > 0', s.galaxyRowSigma);
+  for (const [k, range] of (s.skyRows ?? []).entries()) {
+    if (!(Array.isArray(range) && range.length === 2 && range.every(Number.isInteger))) bad(`skyRows[${k}]`, 'an inclusive range [first, last] of integer rows (internal, 0-based)', JSON.stringify(range));
+  }
+}
+
 /** Throw InputError on settings no arc could satisfy (the runner validates the manifest; this guards library callers). */
 export function checkArcSettings(s: ArcSettings): void {
-  const bad = (key: string, expected: string, actual: unknown): never => {
-    throw new InputError('arc.settings', `invalid arc setting ${key}`, { key }, { expected, actual: String(actual) });
-  };
   if (!(s.approxWavelength > 0)) bad('approxWavelength', 'a wavelength in Angstrom > 0', s.approxWavelength);
   if (!(s.approxDispersion > 0)) bad('approxDispersion', 'Angstrom per pixel > 0', s.approxDispersion);
   if (s.xOrder !== 'auto' && !(Number.isInteger(s.xOrder) && s.xOrder >= 1 && s.xOrder <= 15)) bad('xOrder', "'auto' or an integer 1-15", s.xOrder);

@@ -4,6 +4,7 @@
  * frames rendered with the simulator's optics, and recovered with honest errors.
  */
 import { describe, expect, it } from 'vitest';
+import { InputError } from '../../../src/errors.js';
 import { skyLines } from '../../../src/physics/catalogues.js';
 import { DEFAULT_FLEXURE_SETTINGS, measureFlexure, solveWavelengths } from '../../../src/stages/arc/index.js';
 import { settingsFor, syntheticArc } from './synthetic-arc.js';
@@ -74,5 +75,19 @@ describe('measureFlexure', () => {
     expect(r.product.flexure!.shiftAngstrom).toBe(0);
     expect(r.diagnostics.find((d) => d.rule === 'arc.no-sky-lines')?.severity).toBe('warning');
     expect(r.product.wave[99]).toBe(solution.wave[99]);
+  });
+
+  it('refuses an impossible search window or sky-row range with an InputError naming the setting', () => {
+    const sci = syntheticSky(arc.setup, { seed: 44, shiftAngstrom: 0 });
+    const keyOf = (settings: typeof DEFAULT_FLEXURE_SETTINGS): string | undefined => {
+      try {
+        measureFlexure(sci, solution, skyLines(), settings);
+      } catch (e) {
+        return e instanceof InputError ? e.place.key : 'not an InputError';
+      }
+      return undefined;
+    };
+    expect(keyOf({ ...DEFAULT_FLEXURE_SETTINGS, searchAngstrom: -1 })).toBe('searchAngstrom');
+    expect(keyOf({ ...DEFAULT_FLEXURE_SETTINGS, skyRows: [[0, 40.5]] })).toBe('skyRows[0]');
   });
 });
