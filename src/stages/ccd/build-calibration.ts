@@ -53,7 +53,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     // Common practice: a bias is a zero-second readout; an exposed frame adds light to every frame.
     if (t !== undefined && t > 0) log.warn('bias-exposed', `bias frame with EXPTIME = ${t} s: a bias is a zero-second readout; is it a bias?`, { place: { file: f.path }, expected: 'EXPTIME = 0', actual: t });
   }
-  const bias = combineBias(frames.bias.map((f) => trimFrame(f, det, settings.overscanOrder, false)), det.gain, det.readNoiseE, tw, th, settings);
+  const bias = combineBias(frames.bias, det, settings.overscanOrder, settings);
   if (bias.count === 0) log.warn('no-bias', 'no bias frames: only the overscan is subtracted');
   const minusBias = (data: Float32Array): Float32Array => {
     for (let i = 0; i < data.length; i++) data[i] = data[i]! - bias.data[i]!;

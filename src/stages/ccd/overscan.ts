@@ -33,40 +33,51 @@ export function trimFrame(frame: RawFrame, det: Detector, overscanOrder: number,
   const out = new Float32Array(width * height);
   const mask = new Uint16Array(withMask ? width * height : 0);
   const level = overscanLevel(frame, det, overscanOrder);
+  trimLines(frame, det, level, 0, height, out, withMask ? mask : null);
+  return { width, height, data: out, mask, overscanModel: level.model, overscanRmsAdu: level.rms, overscanAlong: level.along };
+}
+
+/**
+ * Trimmed lines y0 .. y1 - 1 (0-based in the data section) of `frame` into out[0 ..), the
+ * overscan `level` subtracted; saturation marked in `mask` when given. Lets a combination walk
+ * a stack of frames a few lines at a time instead of trimming whole frames.
+ */
+export function trimLines(frame: RawFrame, det: Detector, level: OverscanLevel, y0: number, y1: number, out: Float32Array, mask: Uint16Array | null): void {
+  const { data: s } = det;
+  const width = s.x1 - s.x0;
   const src = frame.data;
   const sat = det.saturationAdu;
   // level.values is indexed by raw y (column strip) or raw x (row strip), full frame length.
   const byColumn = level.along === 'x' ? level.values.subarray(s.x0, s.x1) : null;
-  for (let y = 0; y < height; y++) {
+  for (let y = y0; y < y1; y++) {
     const from = (y + s.y0) * frame.width + s.x0;
-    const to = y * width;
+    const to = (y - y0) * width;
     // One pass per line: level subtracted and saturation marked together.
     if (byColumn) {
       for (let x = 0; x < width; x++) {
         const v = src[from + x]!;
         out[to + x] = v - byColumn[x]!;
-        if (withMask && v >= sat) mask[to + x] = MASK_BITS.saturated;
+        if (mask && v >= sat) mask[to + x] = MASK_BITS.saturated;
       }
     } else {
       const rowLevel = level.along === 'y' ? level.values[y + s.y0]! : 0;
       for (let x = 0; x < width; x++) {
         const v = src[from + x]!;
         out[to + x] = v - rowLevel;
-        if (withMask && v >= sat) mask[to + x] = MASK_BITS.saturated;
+        if (mask && v >= sat) mask[to + x] = MASK_BITS.saturated;
       }
     }
   }
-  return { width, height, data: out, mask, overscanModel: level.model, overscanRmsAdu: level.rms, overscanAlong: level.along };
 }
 
-interface OverscanLevel {
+export interface OverscanLevel {
   along: 'y' | 'x' | null;
   values: Float64Array;
   model: Legendre1D | null;
   rms: number;
 }
 
-function overscanLevel(frame: RawFrame, det: Detector, order: number): OverscanLevel {
+export function overscanLevel(frame: RawFrame, det: Detector, order: number): OverscanLevel {
   const o = det.overscan;
   if (!o) return { along: null, values: new Float64Array(0), model: null, rms: NaN };
   // The strip's long side runs along the readout direction it samples.
