@@ -44,7 +44,7 @@ export function buildRotationCurve(
   };
 
   const good = velocities.points.filter((p) => usable(p, settings.rejectFlags)).sort((a, b) => a.yCentre - b.yCentre);
-  if (good.length < 6) throw new StageError('geometry', 'too-few-points', `${good.length} usable velocity points; at least 6 are needed to fold a curve (lower lines.snrTarget for more bins, or clear bits from rejectFlags)`);
+  if (good.length < 6) throw new StageError('geometry', 'too-few-points', `${good.length} usable velocity points; at least 6 are needed to fold a curve (a lower snr_target in the manifest gives more, smaller bins)`);
   const samples = pvSamples(
     Float64Array.from(good, (p) => p.yCentre),
     Float64Array.from(good, (p) => p.vLos),
@@ -61,7 +61,7 @@ export function buildRotationCurve(
     ...(settings.centreRow !== undefined ? { fixedCentreRow: settings.centreRow } : {}),
     ...(settings.systemicVelocityKms !== undefined ? { fixedVSysKms: settings.systemicVelocityKms } : {}),
   });
-  if (sym === null) throw new StageError('geometry', 'no-symmetric-part', 'fewer than 6 points on both sides of the centre to compare the sides of the curve; the search starts at the continuum peak: give centreRow if that is not the kinematic centre');
+  if (sym === null) throw new StageError('geometry', 'no-symmetric-part', 'fewer than 6 points on both sides of the centre to compare the sides of the curve; the search starts at the continuum peak: fix the centre (centre_row in the manifest) if that is not the kinematic centre');
   if (sym.atSearchEdge) {
     log.warn('centre-at-search-edge', `the most symmetric centre lies at the edge of the search, ${settings.centreSearchRows} rows from the continuum peak`, {
       place: { row: Math.round(sym.centreRow) },

@@ -59,7 +59,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   if (vStart === null) {
     const others = specs[binGroup]!.rest.filter((_, k) => k !== binMember);
     vStart = guessVelocity(central, binRest, others, startSigmaAngstrom);
-    if (vStart === null) throw new StageError('lines', 'no-emission', `no ${binName} emission found near the centre row ${centreRow}; give lines.redshiftGuessKms (km/s) or check that the spectrum covers ${binName}`);
+    if (vStart === null) throw new StageError('lines', 'no-emission', `no ${binName} emission found near the centre row ${centreRow}; check that the spectrum covers ${binName} at the galaxy's redshift (library callers may give redshiftGuessKms, km/s)`);
     log.info('velocity-guess', `starting velocity ${vStart.toFixed(1)} km/s from the strongest ${binName} peak near row ${centreRow}`, { place: { row: centreRow, line: binName } });
   }
   const start: VelocityState = { vKms: vStart, sigmaKms: (C * startSigmaAngstrom) / binRest };
@@ -80,7 +80,7 @@ export function measureLines(frame: CalibratedFrame, solution: WavelengthSolutio
   };
   const ctx: WalkContext = { frame, wave, badBits: BAD_PIXEL_BITS, settings, binRest, instrumental, fit: (bin, state) => fitBinGroups(bin, specs, state, settings, instrumental), binGroup, binMember, columns };
   const records = binRows(ctx, centreRow, start);
-  if (records.length === 0) throw new StageError('lines', 'no-emission', `${binName} never reached S/N ${MIN_BIN_SNR} in any bin around row ${centreRow}, up to ${settings.maxBinRows} rows a bin; raise lines.maxBinRows, or give lines.redshiftGuessKms (km/s) if the starting velocity is off`);
+  if (records.length === 0) throw new StageError('lines', 'no-emission', `${binName} never reached S/N ${MIN_BIN_SNR} in any bin around row ${centreRow}, up to ${settings.maxBinRows} rows a bin: the line is too faint here, or the starting velocity ${vStart.toFixed(0)} km/s is off (library callers may raise maxBinRows or give redshiftGuessKms)`);
 
   // Width held where S/N is low, at the median velocity width of the bins above freeWidthSnr; a
   // group with no such bin borrows the binning group's (same gas, nearly the same instrument).
@@ -133,6 +133,11 @@ function checkSettings(s: LineSettings): void {
   if (!(s.snrTarget > 0)) bad('snrTarget', 'a positive number', s.snrTarget);
   if (!Number.isInteger(s.maxBinRows) || s.maxBinRows < 1) bad('maxBinRows', 'an integer >= 1', s.maxBinRows);
   if (s.redshiftGuessKms !== undefined && !Number.isFinite(s.redshiftGuessKms)) bad('redshiftGuessKms', 'a velocity in km/s', s.redshiftGuessKms);
+  if (!Number.isInteger(s.maxFailedBins) || s.maxFailedBins < 1) bad('maxFailedBins', 'an integer >= 1', s.maxFailedBins);
+  if (typeof s.scaleByChi2 !== 'boolean') bad('scaleByChi2', 'true or false', s.scaleByChi2);
+  for (const key of ['freeWidthSnr', 'velocityToleranceKms', 'windowSigmas', 'poorFitChi2', 'skyResidualLimit', 'maxDispersionKms'] as const) {
+    if (!(s[key] > 0) || !Number.isFinite(s[key])) bad(key, 'a positive number', s[key]);
+  }
 }
 
 function findCentreRow(profile: Float64Array, sky: SkyModel): number {

@@ -50,7 +50,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const firstSky = selectRows(height, rowUsable, contRows, settings.edgeRows);
   // The first sky only has to reveal line emission: every second row, one clipping round.
   const first = fit(frame, solution, good, firstSky, 0, { ...settings, clipIterations: 1 }, 2);
-  if (first === null) throw new StageError('sky', 'no-sky', 'no usable sky rows: the galaxy or masked pixels fill the slit; name rows of clean sky with sky.regions');
+  if (first === null) throw new StageError('sky', 'no-sky', 'no usable sky rows: the galaxy or masked pixels fill the slit; name rows of clean sky (sky_rows in the manifest, regions in the sky settings)');
 
   // 2. Line emission over the first sky model, then the galaxy region.
   const residual = new Float32Array(width * height);
@@ -91,7 +91,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   }
   const use = new Uint8Array(good.length);
   let model = fit(frame, solution, good, skyRows, settings.order, settings, 1, use);
-  if (model === null) throw new StageError('sky', 'no-sky', `too few good sky pixels to fit the sky (${nSky} sky rows); widen sky.regions or lower sky.edgeRows and sky.marginRows`);
+  if (model === null) throw new StageError('sky', 'no-sky', `too few good sky pixels to fit the sky (${nSky} sky rows); name more rows of clean sky (sky_rows in the manifest, regions in the sky settings)`);
   // Faint emission coherent along the slit in the sky rows: masked, and the sky fitted again. The
   // model took up part of that emission, so the residual understates it: a few rounds.
   let masked = 0;
@@ -145,6 +145,7 @@ function checkSettings(s: SkySettings): void {
   if (!Number.isInteger(s.order) || s.order < 0 || s.order > 5) bad('order', 'an integer from 0 to 5', s.order);
   if (!(s.knotSpacingPx >= 0.25 && s.knotSpacingPx <= 10)) bad('knotSpacingPx', 'a spacing from 0.25 to 10 pixels', s.knotSpacingPx);
   if (!(s.clipSigma > 0)) bad('clipSigma', 'a positive number of sigmas', s.clipSigma);
+  if (!(s.detectSigma > 0)) bad('detectSigma', 'a positive number of sigmas', s.detectSigma);
   for (const key of ['edgeRows', 'marginRows', 'gapRows', 'clipIterations', 'minSkyRows'] as const) {
     if (!Number.isInteger(s[key]) || s[key] < 0) bad(key, 'an integer >= 0', s[key]);
   }

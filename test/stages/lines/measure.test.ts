@@ -148,6 +148,8 @@ describe('measureLines binning and flags', () => {
     const sky = subtractSky(s.frame, s.solution, DEFAULT_SKY_SETTINGS).product;
     expect(() => measureLines(sky.frame, s.solution, sky.sky, { ...DEFAULT_LINE_SETTINGS, lines: ['Hgamma'] })).toThrow(InputError);
     expect(() => measureLines(sky.frame, s.solution, sky.sky, { ...DEFAULT_LINE_SETTINGS, snrTarget: 0 })).toThrow(InputError);
+    expect(() => measureLines(sky.frame, s.solution, sky.sky, { ...DEFAULT_LINE_SETTINGS, windowSigmas: 0 })).toThrow(/line setting windowSigmas/);
+    expect(() => measureLines(sky.frame, s.solution, sky.sky, { ...DEFAULT_LINE_SETTINGS, maxFailedBins: 0 })).toThrow(/line setting maxFailedBins/);
   });
 });
 

@@ -116,5 +116,6 @@ describe('subtractSky settings', () => {
     const { frame, solution } = makeSyntheticFrame({ seed: 4, height: 60, centreRow: 30 });
     expect(() => subtractSky(frame, solution, { ...DEFAULT_SKY_SETTINGS, order: -1 })).toThrow(/sky setting order/);
     expect(() => subtractSky(frame, solution, { ...DEFAULT_SKY_SETTINGS, knotSpacingPx: 0 })).toThrow(InputError);
+    expect(() => subtractSky(frame, solution, { ...DEFAULT_SKY_SETTINGS, detectSigma: 0 })).toThrow(/sky setting detectSigma/);
   });
 });
