@@ -42,7 +42,7 @@ export function fitAlongSlit(bands: BandSpectra, bandPeaks: ArcPeak[][], central
   const maxY = Math.min(settings.maxYOrder, bandsWithLines - 1);
   const yOrder = settings.yOrder === 'auto' ? chooseOrderY(px, py, pz, pw, xOrder, maxY, range, settings.clipSigma) : Math.min(settings.yOrder, maxY);
   if (n < (xOrder + 1) * (yOrder + 1) + 2) {
-    throw new StageError('arc', 'arc.too-few-points', `the arc ${arcName}: only ${n} line positions traced along the slit for a ${xOrder}x${yOrder} solution; lower the orders or raise rowBand`);
+    throw new StageError('arc', 'arc.too-few-points', `the arc ${arcName}: only ${n} line positions traced along the slit for a ${xOrder}x${yOrder} solution; set a lower wavelength_order (dispersion, slit) in the manifest`);
   }
   const fit = fitLegendre2D(px, py, pz, pw, xOrder, yOrder, range, { clipSigma: settings.clipSigma, robust: true });
   const lines: ArcLineMeasurement[] = [];

@@ -35,7 +35,7 @@ export function solveWavelengths(arc: CalibratedFrame, lampLines: LampLine[], se
     return solve(arc, lampLines, settings, name);
   } catch (e) {
     // the kernels refuse degenerate systems (too few or collinear points) with RangeError
-    if (e instanceof RangeError) throw new StageError('arc', 'arc.degenerate-fit', `the arc ${name}: the lines found do not constrain the solution (${e.message}); set lower xOrder/yOrder or check the lamps`);
+    if (e instanceof RangeError) throw new StageError('arc', 'arc.degenerate-fit', `the arc ${name}: the lines found do not constrain the solution (${e.message}); set a lower wavelength_order (dispersion, slit) in the manifest or check the lamps`);
     throw e;
   }
 }
