@@ -16,6 +16,7 @@
  *   extrapolation  diagnostics for the ends beyond the outermost identified lines
  * measureFlexure (flexure.ts, sky-rows.ts): night-sky lines stacked over the sky rows, shift =
  *   weighted mean of catalogue - measured.
+ * requireSameGrid (same-grid.ts): the frame/solution size check of flexure, sky and lines.
  */
 export * from './settings.js';
 export { solveWavelengths } from './solve.js';
