@@ -126,8 +126,11 @@ export function parseFits(input: Uint8Array, source: string, options: ParseOptio
     const length = dataBytes(structure, kind === 'unknown' && primary);
     const available = bytes.length - Math.min(end, bytes.length);
     if (length > available) {
-      throw new InputError('fits.truncated', 'data unit is shorter than the header says', { ...place, key: `NAXIS${structure.axes.length}`, offset: end }, {
-        expected: `${length} bytes of data (BITPIX ${structure.bitpix}, axes ${structure.axes.join(' x ')})`,
+      // Name PCOUNT when the heap alone would not fit: the axes are then not what is wrong.
+      const heapBytes = (Math.abs(structure.bitpix) / 8) * structure.gcount * structure.pcount;
+      const key = heapBytes > available ? 'PCOUNT' : `NAXIS${structure.axes.length}`;
+      throw new InputError('fits.truncated', 'data unit is shorter than the header says', { ...place, key, offset: end }, {
+        expected: `${length} bytes of data (BITPIX ${structure.bitpix}, axes ${structure.axes.join(' x ')}${structure.pcount > 0 ? `, PCOUNT ${structure.pcount}` : ''})`,
         actual: `${available} bytes left in the file`,
       });
     }

@@ -84,6 +84,15 @@ describe('malformed FITS input', () => {
     expect(e.message).toMatch(/no END card .*found 36 cards, then bytes that are not ASCII text \(data\?\) at byte 2880/);
   });
 
+  it('a PCOUNT (heap size) larger than the file names PCOUNT, not the axes', () => {
+    const table = writeFits([{ kind: 'bintable', name: 'ROWS', columns: [{ name: 'A', format: 'J', values: new Int32Array([1, 2, 3]) }] }]);
+    const bad = withCard(table, 'PCOUNT', 'PCOUNT  =           4000000000', 2880);
+    const e = inputError(() => parseFits(bad, 'heap.fits', { checksum: 'skip' }));
+    expect(e.code).toBe('fits.truncated');
+    expect(e.place).toMatchObject({ file: 'heap.fits', hdu: 1, key: 'PCOUNT' });
+    expect(e.message).toMatch(/expected 4000000012 bytes of data \(BITPIX 8, axes 4 x 3, PCOUNT 4000000000\)/);
+  });
+
   it('an invalid BITPIX', () => {
     const bad = withCard(good, 'BITPIX', 'BITPIX  =                   17', 2880);
     const e = inputError(() => parseFits(bad, 'bitpix.fits', { checksum: 'skip' }));
