@@ -68,7 +68,6 @@ function fitOneGroup(bin: BinSpectrum, spec: GroupSpec, state: VelocityState, se
     const v = bin.var[x0 + i]!;
     win.weight[i] = excluded[i] || !(v > 0) ? 0 : 1 / v;
   }
-  let good = 0;
   // Other catalogue lines that fall in the window are left out (their cores +-4 sigma).
   for (const other of OTHER_LINES) {
     if (spec.members.includes(other.name)) continue;
@@ -76,7 +75,7 @@ function fitOneGroup(bin: BinSpectrum, spec: GroupSpec, state: VelocityState, se
     if (l < lo - 4 * sigma || l > hi + 4 * sigma) continue;
     for (let i = 0; i < m; i++) if (Math.abs(win.wave[i]! - l) <= 4 * sigma) win.weight[i] = 0;
   }
-  good = 0;
+  let good = 0;
   for (let i = 0; i < m; i++) if (win.weight[i]! > 0) good++;
   if (good < spec.nFree + 6) return null;
   // Starting fluxes from the quick estimate at the expected places; the continuum from the window's median.
