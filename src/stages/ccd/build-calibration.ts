@@ -82,16 +82,19 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     const list = bad.columns.map((x, i) => `${x + 1} (${bad.reasons[i]})`).join(', ');
     log.info('bad-columns', `${bad.columns.length} bad detector column(s), 1-based in the trimmed frame, found in: ${list}`, { actual: bad.columns.length });
   }
-  const badInternal = toInternal(badRaw, tw, th, orientation);
+  // In the usual orientation the raw-orientation arrays serve as they are (none is changed later).
+  const same = !orientation.transpose && !orientation.flipX;
+  const internal = <T extends Float32Array | Uint16Array>(raw: T): T => (same ? raw : toInternal(raw, tw, th, orientation).data);
+  const badInternal = { data: internal(badRaw), width: orientation.transpose ? th : tw, height: orientation.transpose ? tw : th };
   const width = badInternal.width;
   const height = badInternal.height;
-  const masterBias = toInternal(bias.data, tw, th, orientation).data;
+  const masterBias = internal(bias.data);
 
   let masterFlat: Float32Array;
   let flatVariance: Float32Array;
   let flatMask: Uint16Array;
   if (combinedFlat) {
-    const normalised = normaliseFlat(toInternal(combinedFlat.data, tw, th, orientation).data, width, height, badInternal.data, {
+    const normalised = normaliseFlat(internal(combinedFlat.data), width, height, badInternal.data, {
       gain: det.gain, readNoiseE: det.readNoiseE, biasVarianceAdu: bias.varianceAdu, count: combinedFlat.count,
     }, settings);
     ({ flat: masterFlat, variance: flatVariance, mask: flatMask } = normalised);
