@@ -83,3 +83,17 @@ export function weightedLeastSquares(
   }
   return { coeffs, covariance: inverse, chi2, dof: used - nCols };
 }
+
+/**
+ * a^T C a for the n x n row-major C and the n values of `a` from `offset`: with C the coefficient
+ * covariance and a a design row, the variance of the model there (over w_i, the leverage h_i).
+ */
+export function quadraticForm(c: Float64Array, n: number, a: ArrayLike<number>, offset = 0): number {
+  let q = 0;
+  for (let i = 0; i < n; i++) {
+    let s = 0;
+    for (let j = 0; j < n; j++) s += c[i * n + j]! * a[offset + j]!;
+    q += a[offset + i]! * s;
+  }
+  return q;
+}

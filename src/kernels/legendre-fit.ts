@@ -7,7 +7,7 @@
  * the kept set no longer changes (common practice).
  */
 import { legendreBasis, normalise, type Legendre1D, type Legendre2D } from './legendre.js';
-import { weightedLeastSquares } from './least-squares.js';
+import { quadraticForm, weightedLeastSquares } from './least-squares.js';
 import { madSigma } from './robust.js';
 
 export interface LegendreFitOptions {
@@ -183,14 +183,7 @@ function normalisedResiduals(residuals: Float64Array, base: Float64Array): Float
 function studentised(design: Float64Array, n: number, nc: number, residuals: Float64Array, base: Float64Array, w: Float64Array, covariance: Float64Array): Float64Array {
   const out = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    const row = i * nc;
-    let q = 0;
-    for (let a = 0; a < nc; a++) {
-      let s = 0;
-      for (let b = 0; b < nc; b++) s += covariance[a * nc + b]! * design[row + b]!;
-      q += design[row + a]! * s;
-    }
-    const h = base[i]! * q;
+    const h = base[i]! * quadraticForm(covariance, nc, design, i * nc);
     const kept = w[i]! > 0;
     out[i] = (residuals[i]! * Math.sqrt(base[i]!)) / Math.sqrt(kept ? Math.max(1 - h, 1e-12) : 1 + h);
   }

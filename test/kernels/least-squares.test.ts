@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { weightedLeastSquares } from '../../src/kernels/least-squares.js';
+import { quadraticForm, weightedLeastSquares } from '../../src/kernels/least-squares.js';
 
 // Reference: Debian python3-numpy, numpy.linalg.lstsq on sqrt(w)-scaled rows and inv(A^T W A);
 // made by fixtures/arc/make_legendre.py.
@@ -22,6 +22,15 @@ describe('weightedLeastSquares', () => {
     const dropped = weightedLeastSquares(Float64Array.from(ref.design.slice(12)), ref.nRows - 3, ref.nCols, ref.y.slice(3), w.slice(3));
     all.coeffs.forEach((c, k) => expect(c).toBeCloseTo(dropped.coeffs[k]!, 12));
     expect(all.dof).toBe(23);
+  });
+
+  it('leverages w_i a_i^T C a_i from quadraticForm sum to the number of coefficients (trace of the hat matrix; Cook & Weisberg 1982)', () => {
+    const w = ref.sigma.map((s: number) => 1 / (s * s));
+    const design = Float64Array.from(ref.design);
+    const r = weightedLeastSquares(design, ref.nRows, ref.nCols, ref.y, w);
+    let trace = 0;
+    for (let i = 0; i < ref.nRows; i++) trace += w[i] * quadraticForm(r.covariance, ref.nCols, design, i * ref.nCols);
+    expect(trace).toBeCloseTo(ref.nCols, 9);
   });
 
   it('throws RangeError for a singular system (two equal columns)', () => {

@@ -9,8 +9,10 @@
  */
 import { legendreBasis, normalise, type Legendre1D } from '../../kernels/legendre.js';
 import { fitLegendre1D, type LegendreFitResult } from '../../kernels/legendre-fit.js';
+import { quadraticForm } from '../../kernels/least-squares.js';
 
-const PRUNE_CHI2 = 9;
+/** Line positions scattering beyond three times their errors (chi2/dof above 9) are a misfit (common practice). */
+export const MISFIT_CHI2 = 9;
 const MAX_PRUNED_SHARE = 0.25;
 
 export function pruneToErrors(x: Float64Array, y: Float64Array, w: Float64Array, first: LegendreFitResult<Legendre1D>): LegendreFitResult<Legendre1D> {
@@ -21,18 +23,13 @@ export function pruneToErrors(x: Float64Array, y: Float64Array, w: Float64Array,
   const weights = Float64Array.from(w, (v, i) => (first.used[i] ? v : 0));
   const basis = new Float64Array(nc);
   let fit = first;
-  for (let pruned = 0; fit.reducedChi2 > PRUNE_CHI2 && pruned < MAX_PRUNED_SHARE * n && fit.dof > 2; pruned++) {
+  for (let pruned = 0; fit.reducedChi2 > MISFIT_CHI2 && pruned < MAX_PRUNED_SHARE * n && fit.dof > 2; pruned++) {
     let worst = -1;
     let worstGain = 0;
     for (let i = 0; i < n; i++) {
       if (!(weights[i]! > 0)) continue;
       legendreBasis(normalise(x[i]!, range.min, range.max), order, basis);
-      let q = 0;
-      for (let a = 0; a < nc; a++) {
-        let s = 0;
-        for (let b = 0; b < nc; b++) s += fit.covariance[a * nc + b]! * basis[b]!;
-        q += basis[a]! * s;
-      }
+      const q = quadraticForm(fit.covariance, nc, basis);
       const gain = (weights[i]! * fit.residuals[i]! ** 2) / Math.max(1 - weights[i]! * q, 1e-12);
       if (gain > worstGain) {
         worstGain = gain;
@@ -43,5 +40,5 @@ export function pruneToErrors(x: Float64Array, y: Float64Array, w: Float64Array,
     weights[worst] = 0;
     fit = fitLegendre1D(x, y, weights, order, range, { clipSigma: Infinity });
   }
-  return fit.reducedChi2 > PRUNE_CHI2 ? first : fit;
+  return fit.reducedChi2 > MISFIT_CHI2 ? first : fit;
 }

@@ -17,11 +17,10 @@ import { measureBandPeaks } from './band-peaks.js';
 import { solveCentralBand } from './central-solution.js';
 import { isClean } from './centroids.js';
 import { reportExtrapolation } from './extrapolation.js';
+import { MISFIT_CHI2 } from './prune.js';
 import { checkArcSettings, type ArcSettings } from './settings.js';
 import { fitAlongSlit } from './slit-fit.js';
 
-/** Residuals beyond three times the centroid errors (chi2/dof above 9) mean the model does not fit (common practice). */
-const MISFIT_CHI2 = 9;
 
 /** The arc's name for messages: the first exposure's path, else FILENAME, else 'arc'. */
 function arcName(arc: CalibratedFrame): string {
