@@ -83,8 +83,11 @@ function parseToken(token: string): CardValue | undefined {
  * through `warn`, so one odd card does not make a whole raw frame unreadable.
  */
 export function parseCard(text: string, warn: (message: string) => void): RawCard | 'END' {
-  const name = text.slice(0, 8).trimEnd().toUpperCase();
+  const written = text.slice(0, 8).trimEnd();
+  const name = written.toUpperCase();
   if (name === 'END') return 'END';
+  // FITS 4.0 section 4.1.2.1: keywords are upper case; read folded, as other readers do, with a warning.
+  if (written !== name) warn(`keyword '${written}' is not upper case (FITS 4.0 section 4.1.2.1); read as ${name}`);
   let key = name;
   let valueText: string | undefined;
   if (name === 'HIERARCH') {

@@ -99,6 +99,19 @@ function gunzip(bytes: Uint8Array, source: string): Uint8Array {
   }
 }
 
+/**
+ * FITS 4.0 section 4.4.1: SIMPLE (or XTENSION), BITPIX, NAXIS, NAXIS1..n come first, in that order,
+ * and SIMPLE = T. Readers may still make sense of other files, so these are warnings.
+ */
+function warnOnMandatoryCards(header: Header, primary: boolean, warn: (m: string) => void): void {
+  const naxis = header.getNumber('NAXIS');
+  const want = [primary ? 'SIMPLE' : 'XTENSION', 'BITPIX', 'NAXIS'];
+  for (let i = 1; Number.isSafeInteger(naxis) && i <= naxis! && i <= 999; i++) want.push(`NAXIS${i}`);
+  const found = header.cards.slice(0, want.length).map((c) => c.key);
+  if (found.some((k, i) => k !== want[i])) warn(`mandatory keywords out of order (FITS 4.0 section 4.4.1): expected ${want.join(', ')}, found ${found.join(', ')}`);
+  if (primary && header.get('SIMPLE') !== true) warn('SIMPLE is not T: the file says it does not conform to the FITS standard');
+}
+
 /** Parse a FITS file held in memory; gzip streams (magic bytes 1f 8b) are gunzipped first. */
 export function parseFits(input: Uint8Array, source: string, options: ParseOptions = {}): FitsFile {
   if (input.length === 0) throw new InputError('fits.empty', 'file is empty', { file: source }, { expected: 'a FITS file' });
@@ -121,6 +134,7 @@ export function parseFits(input: Uint8Array, source: string, options: ParseOptio
     const warn = (m: string): void => void warnings.push(`${source}, HDU ${index}: ${m}`);
     const { header, end } = parseHeader(bytes, offset, place, warn);
     const primary = index === 0;
+    warnOnMandatoryCards(header, primary, warn);
     const structure = readStructure(header, place, primary);
     const kind = kindOf(header, primary, place);
     const length = dataBytes(structure, kind === 'unknown' && primary);

@@ -145,6 +145,19 @@ describe('malformed FITS input', () => {
     expect(e.message).toMatch(/^rice\.fz, HDU 1: Rice stream ends/);
   });
 
+  it('lower-case keywords, mandatory keywords out of order and SIMPLE = F are read with warnings (FITS 4.0 sections 4.1.2.1, 4.4.1)', () => {
+    const header = (cards: string[]) => new TextEncoder().encode([...cards, 'END'].map((c) => c.padEnd(80)).join('').padEnd(2880));
+    const clean = parseFits(header(['SIMPLE  =                    T', 'BITPIX  =                    8', 'NAXIS   =                    0']), 'ok.fits');
+    expect(clean.warnings).toEqual([]);
+    const odd = parseFits(header(['SIMPLE  =                    F', 'NAXIS   =                    0', 'bitpix  =                    8']), 'odd.fits');
+    expect(odd.hdus[0]!.header.get('BITPIX')).toBe(8);
+    expect(odd.warnings).toEqual([
+      "odd.fits, HDU 0: keyword 'bitpix' is not upper case (FITS 4.0 section 4.1.2.1); read as BITPIX",
+      'odd.fits, HDU 0: mandatory keywords out of order (FITS 4.0 section 4.4.1): expected SIMPLE, BITPIX, NAXIS, found SIMPLE, NAXIS, BITPIX',
+      'odd.fits, HDU 0: SIMPLE is not T: the file says it does not conform to the FITS standard',
+    ]);
+  });
+
   it('extra bytes after the last HDU are a warning, not an error', () => {
     const longer = new Uint8Array(good.length + 100);
     longer.set(good);
