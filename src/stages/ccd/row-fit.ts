@@ -29,6 +29,8 @@ export class RowLegendreFitter {
   private readonly coeffs: Float64Array;
   private readonly kept: Uint8Array;
   private readonly residual: Float64Array;
+  /** The row with its unusable points set to 0. */
+  private readonly maskedRow: Float64Array;
 
   /** Series of `order` over x = 0 .. width - 1 (u = normalise(x, 0, width - 1)). */
   constructor(readonly width: number, readonly order: number) {
@@ -49,6 +51,7 @@ export class RowLegendreFitter {
     this.coeffs = new Float64Array(nc);
     this.kept = new Uint8Array(width);
     this.residual = new Float64Array(width);
+    this.maskedRow = new Float64Array(width);
   }
 
   /**
@@ -63,21 +66,33 @@ export class RowLegendreFitter {
     if (count < 2 * nc) return false;
     this.startNormal(usable);
     // Right-hand side one basis function at a time (the same sums, in the same order, as per point).
+    // Unusable points enter as exact zeros (adding 0 changes no sum), which keeps the loop branch-free.
     kept.set(usable);
+    const masked = this.maskedRow;
+    for (let x = 0; x < width; x++) masked[x] = usable[x] ? row[x]! : 0;
     for (let k = 0; k < nc; k++) {
       const column = byColumn.subarray(k * width, (k + 1) * width);
       let sum = 0;
-      for (let x = 0; x < width; x++) if (usable[x]) sum += row[x]! * column[x]!;
+      for (let x = 0; x < width; x++) sum += masked[x]! * column[x]!;
       this.rhs[k] = sum;
     }
     for (let iter = 0; ; iter++) {
       if (!this.solve()) return false;
-      // The model one basis function at a time (same sum order as per point, long simple loops).
+      // The model four basis functions per pass over x (the terms still added in order k = 0, 1, ...).
       residual.fill(0);
-      for (let k = 0; k < nc; k++) {
+      let k = 0;
+      for (; k + 4 <= nc; k += 4) {
+        const [c0, c1, c2, c3] = [this.coeffs[k]!, this.coeffs[k + 1]!, this.coeffs[k + 2]!, this.coeffs[k + 3]!];
+        const d0 = byColumn.subarray(k * width, (k + 1) * width);
+        const d1 = byColumn.subarray((k + 1) * width, (k + 2) * width);
+        const d2 = byColumn.subarray((k + 2) * width, (k + 3) * width);
+        const d3 = byColumn.subarray((k + 3) * width, (k + 4) * width);
+        for (let x = 0; x < width; x++) residual[x] = residual[x]! + d0[x]! * c0 + d1[x]! * c1 + d2[x]! * c2 + d3[x]! * c3;
+      }
+      for (; k < nc; k++) {
         const c = this.coeffs[k]!;
         const column = byColumn.subarray(k * width, (k + 1) * width);
-        for (let x = 0; x < width; x++) residual[x] += column[x]! * c;
+        for (let x = 0; x < width; x++) residual[x] = residual[x]! + column[x]! * c;
       }
       let chi2 = 0;
       for (let x = 0; x < width; x++) {
