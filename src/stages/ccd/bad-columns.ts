@@ -16,6 +16,8 @@ export interface BadColumnSearch {
   columns: number[];
   /** Why each column was flagged, in the same order. */
   reasons: ('bias' | 'flat')[];
+  /** The flat's column medians (trimmed raw orientation), null without a flat: normaliseFlat can reuse them. */
+  flatColumnMedians: Float64Array | null;
 }
 
 export function findBadColumns(
@@ -32,13 +34,14 @@ export function findBadColumns(
     const limit = Math.max(sigma * madSigma(dev), readNoiseAdu);
     for (let x = 0; x < width; x++) if (Math.abs(dev[x]!) > limit) flagged.set(x, 'bias');
   }
-  if (flat) {
-    const dev = departures(columnMedians(flat, width, height), true);
+  const flatColumnMedians = flat ? columnMedians(flat, width, height) : null;
+  if (flatColumnMedians) {
+    const dev = departures(flatColumnMedians, true);
     const limit = Math.max(sigma * madSigma(dev), FLAT_FLOOR);
     for (let x = 0; x < width; x++) if (Math.abs(dev[x]!) > limit && !flagged.has(x)) flagged.set(x, 'flat');
   }
   const columns = [...flagged.keys()].sort((a, b) => a - b);
-  return { columns, reasons: columns.map((x) => flagged.get(x)!) };
+  return { columns, reasons: columns.map((x) => flagged.get(x)!), flatColumnMedians };
 }
 
 /** Columns copied out together: one pass down the image per block instead of one strided pass per column. */

@@ -96,7 +96,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   if (combinedFlat) {
     const normalised = normaliseFlat(internal(combinedFlat.data), width, height, badInternal.data, {
       gain: det.gain, readNoiseE: det.readNoiseE, biasVarianceAdu: bias.varianceAdu, count: combinedFlat.count,
-    }, settings);
+    }, settings, same ? bad.flatColumnMedians ?? undefined : undefined);
     ({ flat: masterFlat, variance: flatVariance, mask: flatMask } = normalised);
     if (normalised.unfitRows.length > 0) log.warn('flat-dark-rows', `${normalised.unfitRows.length} row(s) without enough flat light are masked`, { actual: normalised.unfitRows.length });
     let zero = 0;

@@ -58,7 +58,8 @@ export interface NormalisedFlat {
 /**
  * `combined`: the combined flat in the internal orientation (ADU). `exclude`: pixels left out
  * of the fits (bad columns), kept in the mask. Variance of the combination per pixel, ADU^2:
- * (C / g + (RN / g)^2 + var(bias)) / nFlats.
+ * (C / g + (RN / g)^2 + var(bias)) / nFlats. `knownColumnMedians`: the column medians of
+ * `combined` when already at hand (they are not computed again).
  */
 export function normaliseFlat(
   combined: Float32Array,
@@ -67,10 +68,11 @@ export function normaliseFlat(
   exclude: Uint16Array,
   noise: { gain: number; readNoiseE: number; biasVarianceAdu: number; count: number },
   settings: CcdSettings,
+  knownColumnMedians?: Float64Array,
 ): NormalisedFlat {
   const n = width * height;
   const mask = exclude.slice();
-  markUnlit(combined, width, height, settings.illuminationMinimum, mask);
+  markUnlit(combined, width, height, settings.illuminationMinimum, mask, knownColumnMedians);
   const model = new Float32Array(n);
   const unfitRows: number[] = [];
   const order = settings.flatOrder;
@@ -154,11 +156,11 @@ function rowUsable(mask: Uint16Array, y: number, width: number, bits: number, us
  * is below `fraction` of the median of all rows' (columns') medians; single dark pixels inside the
  * lit area are left to the zeroFlat test.
  */
-function markUnlit(combined: Float32Array, width: number, height: number, fraction: number, mask: Uint16Array): void {
+function markUnlit(combined: Float32Array, width: number, height: number, fraction: number, mask: Uint16Array, knownColumnMedians?: Float64Array): void {
   const rows = new Float64Array(height);
   const scratch = new Float64Array(width);
   for (let y = 0; y < height; y++) rows[y] = median(combined.subarray(y * width, (y + 1) * width), scratch);
-  const cols = columnMedians(combined, width, height);
+  const cols = knownColumnMedians ?? columnMedians(combined, width, height);
   const rowLimit = fraction * median(rows);
   const colLimit = fraction * median(cols);
   for (let y = 0; y < height; y++) {
