@@ -2,7 +2,7 @@ import { describe, expect, test } from 'vitest';
 import { StageError } from '../../../src/errors.js';
 import type { RotationCurve } from '../../../src/products/curve.js';
 import { buildRotationCurve } from '../../../src/stages/geometry/index.js';
-import { seededRandom } from './random.js';
+import { Rng } from '../../../src/kernels/random.js';
 import { risingFlat, synthLines, synthVelocities, type DiskTruth } from './synthetic.js';
 
 const ROWS = 200;
@@ -68,7 +68,7 @@ describe('deprojection and fold of a noiseless disk', () => {
 
 describe('injection and recovery (seeded synthetic curves)', () => {
   test.each([0, 20])('slit %i deg from the major axis: v_sys within 2 km/s, centre within errors, pulls of V of unit width', (dphi) => {
-    const rnd = seededRandom(11 + dphi);
+    const rnd = new Rng(11 + dphi);
     const pullsV: number[] = [];
     const pullsC: number[] = [];
     const pullsS: number[] = [];

@@ -1,10 +1,10 @@
 import { describe, expect, test } from 'vitest';
 import { fitSymmetry, pvSamples } from '../../../src/stages/geometry/index.js';
-import { seededRandom } from './random.js';
+import { Rng } from '../../../src/kernels/random.js';
 
 /** An antisymmetric curve about (c, vs) sampled every `step` rows, with Gaussian noise of error e(s). */
 function samples(seed: number, c: number, vs: number, step: number, e: (s: number) => number) {
-  const rnd = seededRandom(seed);
+  const rnd = new Rng(seed);
   const y: number[] = [];
   const v: number[] = [];
   const err: number[] = [];
@@ -22,7 +22,7 @@ describe('centre and systemic velocity by symmetry', () => {
     for (const step of [1, 3]) {
       const pc: number[] = [];
       const pv: number[] = [];
-      const rnd = seededRandom(40 + step);
+      const rnd = new Rng(40 + step);
       for (let k = 0; k < 40; k++) {
         const c = 99 + 2 * rnd.uniform();
         const fit = fitSymmetry(samples(500 + k, c, 1500, step, (s) => 4 + 0.05 * Math.abs(s)), { startRow: c + 3 * rnd.normal(), searchRows: 8 })!;

@@ -7,7 +7,7 @@
  */
 import type { LineTable, RowBin } from '../../../src/products/lines.js';
 import type { VelocityPoint, VelocityTable } from '../../../src/products/curve.js';
-import { seededRandom } from './random.js';
+import { Rng } from '../../../src/kernels/random.js';
 
 const C_KMS = 299792.458; // SI, exact
 const DEG = Math.PI / 180;
@@ -51,7 +51,7 @@ export function trueVlos(t: DiskTruth, y: number): number {
 }
 
 export function synthVelocities(t: DiskTruth, o: SynthOptions): VelocityTable {
-  const rnd = seededRandom(o.seed);
+  const rnd = new Rng(o.seed);
   const step = o.binRows ?? 1;
   const points: VelocityPoint[] = [];
   for (let y0 = 0, bin = 0; y0 + step <= o.rows; y0 += step, bin++) {
