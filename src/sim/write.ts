@@ -1,6 +1,7 @@
 /** Writing a simulated run to a folder: raw/*.fits, truth.json, run.yaml and, if kept, expected/*.fits. */
 import { mkdirSync, readdirSync, renameSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
+import { InputError } from '../errors.js';
 import { expectedToFits, simFrameToFits } from './convert.js';
 import { trimmedSize } from './detector.js';
 import type { SimulatedRun } from './simulate.js';
@@ -37,6 +38,17 @@ export function staleRunFiles(run: SimulatedRun, dir: string): string[] {
   const written = new Set(run.frames.map((f) => f.name));
   if (run.expected) for (const name of run.expected.keys()) written.add(`expected/${basename(name)}`);
   return [...filesIn(dir, 'raw'), ...filesIn(dir, 'expected')].filter((name) => !written.has(name)).sort();
+}
+
+/**
+ * Refuse a folder that holds raw or expected frames this run would not replace: the globs of its
+ * run.yaml would pick them up and mix another night into this one.
+ */
+export function assertNoStaleFiles(run: SimulatedRun, dir: string, key: string): void {
+  const stale = staleRunFiles(run, dir);
+  if (stale.length === 0) return;
+  const shown = stale.slice(0, 3).join(', ') + (stale.length > 3 ? `, ... (${stale.length} files)` : '');
+  throw new InputError('cli.out-holds-other-run', 'the folder holds files this run would not replace, and the globs of its run.yaml would pick them up', { file: dir, key }, { expected: 'a new or empty folder, or one holding the same run', actual: shown });
 }
 
 /**

@@ -11,7 +11,7 @@ import { plainProgress } from '../../run/progress/plain.js';
 import { reduceRun } from '../../run/runner.js';
 import { simulateRun } from '../../sim/simulate.js';
 import { trueRotation } from '../../sim/truth.js';
-import { writeSimulatedRun } from '../../sim/write.js';
+import { assertNoStaleFiles, writeSimulatedRun } from '../../sim/write.js';
 import type { CliIo } from '../io.js';
 import type { CommandRegistrar } from '../main.js';
 
@@ -28,6 +28,7 @@ export const registerDemo: CommandRegistrar = (program: Command, io: CliIo, setE
       const started = performance.now();
       io.out(`simulating a small observing night in ${dir} ...\n`);
       const sim = simulateRun({ size: 'small' });
+      assertNoStaleFiles(sim, dir, '--out');
       writeSimulatedRun(sim, dir);
       io.out(`reducing ${join(dir, 'run.yaml')} ...\n`);
       const run = loadManifest(join(dir, 'run.yaml'));

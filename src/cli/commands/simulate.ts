@@ -4,7 +4,7 @@ import type { Command } from 'commander';
 import { EXIT, InputError } from '../../errors.js';
 import { SIM_VARIANTS, type SimOptions } from '../../sim/options.js';
 import { simulateRun } from '../../sim/simulate.js';
-import { staleRunFiles, writeSimulatedRun } from '../../sim/write.js';
+import { assertNoStaleFiles, writeSimulatedRun } from '../../sim/write.js';
 import type { CliIo } from '../io.js';
 import type { CommandRegistrar } from '../main.js';
 
@@ -83,11 +83,7 @@ export const registerSimulate: CommandRegistrar = (program: Command, io: CliIo, 
       const options = simulateOptionsFromFlags(flags);
       checkOutFolder(flags.out);
       const run = simulateRun(options);
-      const stale = staleRunFiles(run, flags.out);
-      if (stale.length > 0) {
-        const shown = stale.slice(0, 3).join(', ') + (stale.length > 3 ? `, ... (${stale.length} files)` : '');
-        throw new InputError('cli.out-holds-other-run', 'the folder holds files this run would not replace, and the globs of its run.yaml would pick them up', { file: flags.out, key: '--out' }, { expected: 'a new or empty folder, or one holding the same run', actual: shown });
-      }
+      assertNoStaleFiles(run, flags.out, '--out');
       writeRunOrExplain(run, flags.out);
       const seconds = (performance.now() - started) / 1000;
       const kinds = ['bias', 'flat', 'arc', 'science'].map((k) => `${run.frames.filter((f) => f.kind === k).length} ${k}`).join(', ');
