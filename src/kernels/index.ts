@@ -14,3 +14,4 @@ export * from './laplacian.js';
 export * from './random.js';
 export * from './chi2-scale.js';
 export * from './sorted-search.js';
+export * from './weighted-mean.js';

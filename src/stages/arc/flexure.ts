@@ -10,6 +10,7 @@ import { chi2ErrorScale, chi2NoiseLimit } from '../../kernels/chi2-scale.js';
 import { fitGaussianLine } from '../../kernels/gaussian-fit.js';
 import { evalLegendre2D, legendre2DStepX } from '../../kernels/legendre.js';
 import { lowerIndex } from '../../kernels/sorted-search.js';
+import { weightedMean } from '../../kernels/weighted-mean.js';
 import { SPEED_OF_LIGHT_KMS } from '../../physics/constants.js';
 import type { SkyLine } from '../../physics/catalogues.js';
 import type { CalibratedFrame, StageResult } from '../../products/frame.js';
@@ -121,17 +122,9 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
   if (usable.length === 0) {
     log.warn('no-sky-lines', `no usable night-sky line (${candidates.length} in range, ${nSky} sky rows): flexure not corrected (shift 0)`, { place });
   } else {
-    let sw = 0;
-    let swx = 0;
-    for (const l of usable) {
-      const w = 1 / (l.error * l.error);
-      sw += w;
-      swx += w * (l.wavelength - l.measured);
-    }
-    shift = swx / sw;
-    shiftErr = 1 / Math.sqrt(sw);
-    let chi2 = 0;
-    for (const l of usable) chi2 += ((l.wavelength - l.measured - shift) / l.error) ** 2;
+    const { mean, err, chi2 } = weightedMean(usable.map((l) => l.wavelength - l.measured), usable.map((l) => l.error));
+    shift = mean;
+    shiftErr = err;
     const dof = usable.length - 1;
     const scale = chi2ErrorScale(chi2, dof);
     if (scale > 1) {

@@ -1,3 +1,4 @@
+import { weightedMean } from '../../kernels/weighted-mean.js';
 import type { CurvePoint } from '../../products/curve.js';
 
 /** The number of outermost curve points averaged into vOuter. */
@@ -11,12 +12,6 @@ export function outerVelocity(points: CurvePoint[]): { v: number; err: number } 
   const twoSided = points.filter((p) => !p.oneSided && Number.isFinite(p.vRot));
   const pool = twoSided.length >= OUTER_POINTS ? twoSided : points;
   const outer = [...pool].sort((a, b) => a.rArcsec - b.rArcsec).slice(-OUTER_POINTS);
-  let sw = 0;
-  let swv = 0;
-  for (const p of outer) {
-    const w = 1 / (p.errTotal * p.errTotal);
-    sw += w;
-    swv += w * p.vRot;
-  }
-  return { v: swv / sw, err: 1 / Math.sqrt(sw) };
+  const m = weightedMean(outer.map((p) => p.vRot), outer.map((p) => p.errTotal));
+  return { v: m.mean, err: m.err };
 }
