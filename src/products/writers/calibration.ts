@@ -5,26 +5,14 @@
  */
 import { Header } from '../../fits/header.js';
 import type { WriteHdu } from '../../fits/write-types.js';
-import type { Orientation, Section } from '../frame.js';
+import type { CcdCalibration } from '../../stages/ccd/calibration.js';
 import { inRawOrientation, maskBitHeader, sectionText } from './spectrum.js';
 
-/** What the writers need of the CCD stage's calibration (CcdCalibration has these fields). */
-export interface MasterFrames {
-  orientation: Orientation;
-  section: Section;
-  /** Internal frame size. */
-  width: number;
-  height: number;
-  gain: number;
-  readNoiseE: number;
-  /** ADU, internal orientation. */
-  masterBias: Float32Array;
-  /** Variance of one master-bias pixel, ADU^2. */
-  biasVarianceAdu: number;
-  masterFlat: Float32Array;
-  flatVariance: Float32Array;
-  flatMask: Uint16Array;
-}
+/** What the writers need of the CCD stage's calibration. */
+export type MasterFrames = Pick<
+  CcdCalibration,
+  'orientation' | 'section' | 'width' | 'height' | 'gain' | 'readNoiseE' | 'masterBias' | 'biasVarianceAdu' | 'masterFlat' | 'flatVariance' | 'flatMask'
+>;
 
 export interface CalibrationFits {
   primaryHeader: Header;

@@ -4,26 +4,14 @@
  * through the bias subtraction and flat division; mask from saturation and the calibration.
  */
 import { toInternal } from '../../products/orientation.js';
-import type { Orientation } from '../../products/frame.js';
+import type { CcdCalibration } from './calibration.js';
 import type { TrimmedFrame } from './overscan.js';
 
 /** The parts of the calibration an exposure needs (all internal orientation). */
-export interface ExposureCalibration {
-  orientation: Orientation;
-  width: number;
-  height: number;
-  gain: number;
-  readNoiseE: number;
-  /** ADU. */
-  masterBias: Float32Array;
-  /** Variance of a master-bias pixel, ADU^2. */
-  biasVarianceAdu: number;
-  /** Normalised flat; 1 where flatMask says it was not divided. */
-  masterFlat: Float32Array;
-  /** Variance of the normalised flat (dimensionless^2). */
-  flatVariance: Float32Array;
-  flatMask: Uint16Array;
-}
+export type ExposureCalibration = Pick<
+  CcdCalibration,
+  'orientation' | 'width' | 'height' | 'gain' | 'readNoiseE' | 'masterBias' | 'biasVarianceAdu' | 'masterFlat' | 'flatVariance' | 'flatMask'
+>;
 
 export interface CalibratedExposure {
   /** Electrons (flat-fielded) in this exposure. */

@@ -4,6 +4,7 @@
  * members and the matching error for correlation 1 (sum w_i s_i / sum w_i). Groups are independent:
  * inverse-variance mean, error 1/sqrt(sum w).
  */
+import { weightedMean } from '../../kernels/weighted-mean.js';
 
 export interface LineEstimate {
   group: string;
@@ -47,14 +48,6 @@ export function binVelocity(estimates: LineEstimate[], avoidFlags: number): BinV
     return { v: sv / sw, s: ss / sw };
   });
 
-  let sw = 0;
-  let sv = 0;
-  for (const g of perGroup) {
-    const w = 1 / (g.s * g.s);
-    sw += w;
-    sv += w * g.v;
-  }
-  const vLos = sv / sw;
-  const chi2 = perGroup.reduce((c, g) => c + ((g.v - vLos) / g.s) ** 2, 0);
-  return { vLos, vLosErr: 1 / Math.sqrt(sw), flags, chi2, dof: perGroup.length - 1 };
+  const m = weightedMean(perGroup.map((g) => g.v), perGroup.map((g) => g.s));
+  return { vLos: m.mean, vLosErr: m.err, flags, chi2: m.chi2, dof: perGroup.length - 1 };
 }
