@@ -7,21 +7,11 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../src/errors.js';
 import { parseFits, readFitsFile, readImage, writeFits } from '../../src/fits/index.js';
+import { inputError } from '../helpers/input-error.js';
 
 const DIR = join(import.meta.dirname, '../../fixtures/fits');
 const tmp = mkdtempSync(join(tmpdir(), 'whorl-bad-'));
-
-function inputError(f: () => unknown): InputError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof InputError) return e;
-    throw e;
-  }
-  throw new Error('no error thrown');
-}
 
 const good = writeFits([{ kind: 'image', name: 'SCI', bitpix: -32, width: 40, height: 30, data: new Float32Array(1200).fill(1) }]);
 

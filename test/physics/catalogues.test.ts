@@ -6,16 +6,7 @@ import { InputError } from '../../src/errors.js';
 import { airToVacuum } from '../../src/physics/air-vacuum.js';
 import { GALAXY_LINES, KNOWN_LAMPS, galaxyLine, loadLampLines, parseLineList, readLineListFile, skyLines } from '../../src/physics/catalogues.js';
 import { groupLines } from '../../src/physics/line-groups.js';
-
-function inputError(f: () => unknown): InputError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof InputError) return e;
-    throw e;
-  }
-  throw new Error('expected an InputError');
-}
+import { inputError } from '../helpers/input-error.js';
 
 describe('lamp line lists (NIST ASD air wavelengths, REFERENCE.md)', () => {
   it('loads every built-in lamp, sorted, with positive intensities', () => {

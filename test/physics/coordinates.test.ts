@@ -4,6 +4,7 @@ import { InputError } from '../../src/errors.js';
 import { Header } from '../../src/fits/header.js';
 import { midExposure, parseDeclination, parseRightAscension, siteFromHeader } from '../../src/physics/coordinates.js';
 import { geodeticFromGeocentric } from '../../src/physics/geodetic.js';
+import { inputError } from '../helpers/input-error.js';
 
 // Outside reference: Debian python3-astropy Angle and EarthLocation (WGS84), fixtures/physics/make_coordinates.py.
 const fixture = JSON.parse(readFileSync(new URL('../../fixtures/physics/coordinates.json', import.meta.url), 'utf8')) as {
@@ -11,16 +12,6 @@ const fixture = JSON.parse(readFileSync(new URL('../../fixtures/physics/coordina
   rightAscension: { text: string; deg: number }[];
   declination: { text: string; deg: number }[];
 };
-
-function inputError(f: () => unknown): InputError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof InputError) return e;
-    throw e;
-  }
-  throw new Error('expected an InputError');
-}
 
 describe('parseRightAscension (sexagesimal hours, 15 deg per hour)', () => {
   it("reads '12:34:56.7' and '12 34 56.7' as 188.73625 deg", () => {

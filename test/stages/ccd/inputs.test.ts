@@ -4,8 +4,9 @@ import { buildCalibration } from '../../../src/stages/ccd/build-calibration.js';
 import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
 import { checkCcdSettings, DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
 import { formatSection, parseSection } from '../../../src/stages/ccd/section.js';
-import { InputError, StageError } from '../../../src/errors.js';
+import { StageError } from '../../../src/errors.js';
 import { arcSignal, flatSignal, syntheticFrame, type SyntheticOptions } from './synthetic.js';
+import { inputError } from '../../helpers/input-error.js';
 
 function calibrationFrames(o: SyntheticOptions = {}) {
   return {
@@ -13,16 +14,6 @@ function calibrationFrames(o: SyntheticOptions = {}) {
     flat: [syntheticFrame('raw/f1.fits', flatSignal, o)],
     arc: [syntheticFrame('raw/a1.fits', arcSignal, o)],
   };
-}
-
-function caught(f: () => unknown): InputError {
-  try {
-    f();
-  } catch (e) {
-    if (e instanceof InputError) return e;
-    throw e;
-  }
-  throw new Error('no InputError thrown');
 }
 
 // Sections follow the DATASEC/BIASSEC convention: '[x1:x2,y1:y2]', 1-based inclusive, x first.
@@ -33,32 +24,32 @@ describe('image sections', () => {
     expect(formatSection(s)).toBe('[3:10,2:5]');
   });
   it('names the keyword of a section outside the frame or badly written', () => {
-    const e = caught(() => parseSection('[1:21,1:10]', 20, 10, { file: 'raw/x.fits', key: 'DATASEC' }));
+    const e = inputError(() => parseSection('[1:21,1:10]', 20, 10, { file: 'raw/x.fits', key: 'DATASEC' }));
     expect(e.code).toBe('ccd.section-outside');
     expect(e.place).toMatchObject({ file: 'raw/x.fits', key: 'DATASEC' });
-    expect(caught(() => parseSection('1:20,1:10', 20, 10, {})).code).toBe('ccd.section-syntax');
-    expect(caught(() => parseSection('[5:4,1:10]', 20, 10, {})).code).toBe('ccd.section-outside');
+    expect(inputError(() => parseSection('1:20,1:10', 20, 10, {})).code).toBe('ccd.section-syntax');
+    expect(inputError(() => parseSection('[5:4,1:10]', 20, 10, {})).code).toBe('ccd.section-outside');
   });
 });
 
 describe('calibration inputs', () => {
   it('a missing gain names the file, the keyword GAIN and the manifest key `gain`', () => {
-    const e = caught(() => buildCalibration(calibrationFrames({ gain: null }), DEFAULT_CCD_SETTINGS));
+    const e = inputError(() => buildCalibration(calibrationFrames({ gain: null }), DEFAULT_CCD_SETTINGS));
     expect(e.code).toBe('ccd.gain-missing');
     expect(e.place).toMatchObject({ file: 'raw/b1.fits', key: 'GAIN' });
     expect(e.message).toContain('`gain`');
     expect(() => buildCalibration(calibrationFrames({ gain: null }), { ...DEFAULT_CCD_SETTINGS, gain: 1.5 })).not.toThrow();
   });
   it('a data section outside the frame is an error naming DATASEC', () => {
-    const e = caught(() => buildCalibration(calibrationFrames({ datasec: '[1:60,1:30]' }), DEFAULT_CCD_SETTINGS));
+    const e = inputError(() => buildCalibration(calibrationFrames({ datasec: '[1:60,1:30]' }), DEFAULT_CCD_SETTINGS));
     expect(e.code).toBe('ccd.section-outside');
     expect(e.place.key).toBe('DATASEC');
   });
   it('an overscan that overlaps the data names the key it came from: manifest biassec, else header BIASSEC', () => {
-    const e = caught(() => buildCalibration(calibrationFrames(), { ...DEFAULT_CCD_SETTINGS, biasSection: '[1:8,1:30]' }));
+    const e = inputError(() => buildCalibration(calibrationFrames(), { ...DEFAULT_CCD_SETTINGS, biasSection: '[1:8,1:30]' }));
     expect(e.code).toBe('ccd.section-overlap');
     expect(e.place).toMatchObject({ file: 'raw/b1.fits', key: 'biassec' });
-    const h = caught(() => buildCalibration(calibrationFrames({ datasec: '[1:44,1:30]' }), DEFAULT_CCD_SETTINGS));
+    const h = inputError(() => buildCalibration(calibrationFrames({ datasec: '[1:44,1:30]' }), DEFAULT_CCD_SETTINGS));
     expect(h.code).toBe('ccd.section-overlap');
     expect(h.place.key).toBe('BIASSEC');
   });
@@ -81,22 +72,22 @@ describe('calibration inputs', () => {
     expect(warned.map((d) => [d.severity, d.place?.file, d.actual])).toEqual([['warning', 'raw/s9.fits', 600]]);
   });
   it('no arc frames is an error', () => {
-    expect(caught(() => buildCalibration({ ...calibrationFrames(), arc: [] }, DEFAULT_CCD_SETTINGS)).code).toBe('ccd.no-arc');
+    expect(inputError(() => buildCalibration({ ...calibrationFrames(), arc: [] }, DEFAULT_CCD_SETTINGS)).code).toBe('ccd.no-arc');
   });
   it('a calibration frame of another shape names both files', () => {
     const frames = calibrationFrames();
     frames.flat.push(syntheticFrame('raw/f2.fits', flatSignal, { height: 31 }));
-    const e = caught(() => buildCalibration(frames, DEFAULT_CCD_SETTINGS));
+    const e = inputError(() => buildCalibration(frames, DEFAULT_CCD_SETTINGS));
     expect(e.code).toBe('ccd.shape-mismatch');
     expect(e.message).toContain('raw/f2.fits');
     expect(e.message).toContain('raw/b1.fits');
   });
   it('a science frame of another shape or binning than the calibrations names both files', () => {
     const cal = buildCalibration(calibrationFrames(), DEFAULT_CCD_SETTINGS).product;
-    const shape = caught(() => calibrateScience([syntheticFrame('raw/s1.fits', () => 50, { width: 41 })], cal, DEFAULT_CCD_SETTINGS));
+    const shape = inputError(() => calibrateScience([syntheticFrame('raw/s1.fits', () => 50, { width: 41 })], cal, DEFAULT_CCD_SETTINGS));
     expect(shape.code).toBe('ccd.shape-mismatch');
     expect(shape.message).toMatch(/raw\/s1\.fits.*raw\/b1\.fits/);
-    const binning = caught(() => calibrateScience([syntheticFrame('raw/s2.fits', () => 50, { binning: '2 2' })], cal, DEFAULT_CCD_SETTINGS));
+    const binning = inputError(() => calibrateScience([syntheticFrame('raw/s2.fits', () => 50, { binning: '2 2' })], cal, DEFAULT_CCD_SETTINGS));
     expect(binning.code).toBe('ccd.binning-mismatch');
     expect(binning.message).toMatch(/raw\/s2\.fits.*raw\/b1\.fits/);
   });
@@ -104,7 +95,7 @@ describe('calibration inputs', () => {
     const cal = buildCalibration(calibrationFrames(), DEFAULT_CCD_SETTINGS).product;
     const frame = syntheticFrame('raw/s3.fits', () => 50);
     frame.header.delete('EXPTIME');
-    const e = caught(() => calibrateScience([frame], cal, DEFAULT_CCD_SETTINGS));
+    const e = inputError(() => calibrateScience([frame], cal, DEFAULT_CCD_SETTINGS));
     expect(e.code).toBe('ccd.exptime-invalid');
     expect(e.place).toMatchObject({ file: 'raw/s3.fits', key: 'EXPTIME' });
   });
@@ -125,7 +116,7 @@ describe('calibration inputs', () => {
     const cal = buildCalibration(calibrationFrames(), DEFAULT_CCD_SETTINGS).product;
     const frame = syntheticFrame('raw/s4.fits', () => 50);
     frame.header.set('EXPTIME', 'long');
-    const e = caught(() => calibrateScience([frame], cal, DEFAULT_CCD_SETTINGS));
+    const e = inputError(() => calibrateScience([frame], cal, DEFAULT_CCD_SETTINGS));
     expect(e.message).toBe('raw/s4.fits, HDU 0, EXPTIME: the exposure time is missing or not positive (expected EXPTIME > 0 (seconds), found "long")');
   });
 });
@@ -133,10 +124,10 @@ describe('calibration inputs', () => {
 describe('settings', () => {
   it('a setting out of its range is an InputError naming it', () => {
     const frames = calibrationFrames();
-    const e = caught(() => buildCalibration(frames, { ...DEFAULT_CCD_SETTINGS, flatOrder: -1 }));
+    const e = inputError(() => buildCalibration(frames, { ...DEFAULT_CCD_SETTINGS, flatOrder: -1 }));
     expect(e.code).toBe('ccd.invalid-setting');
     expect(e.place.key).toBe('flatOrder');
-    const l = caught(() => buildCalibration(frames, { ...DEFAULT_CCD_SETTINGS, laplacian: { ...DEFAULT_CCD_SETTINGS.laplacian, sigmaFrac: 2 } }));
+    const l = inputError(() => buildCalibration(frames, { ...DEFAULT_CCD_SETTINGS, laplacian: { ...DEFAULT_CCD_SETTINGS.laplacian, sigmaFrac: 2 } }));
     expect(l.place.key).toBe('laplacian.sigmaFrac');
     expect(() => checkCcdSettings(DEFAULT_CCD_SETTINGS)).not.toThrow();
   });
