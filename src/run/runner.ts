@@ -1,6 +1,6 @@
 /**
  * `whorl reduce`: from a resolved manifest to products. Calibrations are computed once per setup
- * (in this thread, cached on disk by content), then targets run in parallel on worker threads;
+ * (in this thread, cached on disk by content), then targets run in parallel on worker threads and this one;
  * each target's products are cached by a key of its inputs' sha256, its resolved settings, the
  * stages that exist, the whorl version and a hash of whorl's code, so a rerun redoes only what
  * changed.
@@ -13,7 +13,6 @@ import type { EventSink, RunEvent } from './events.js';
 import { removePartialFiles } from './io/atomic.js';
 import { codeFingerprint } from './io/code-fingerprint.js';
 import { canonicalJson, sha256File, sha256Text } from './io/hash.js';
-import { pack } from './io/pack.js';
 import { isUpToDate, readTargetState, STATE_DIR } from './io/state.js';
 import { manifestRelative, type ResolvedRun, type ResolvedSetup, type ResolvedTarget } from './manifest/resolve.js';
 import { calibrateSetupCached, SETUP_STAGES } from './pipeline/setup-stages.js';
@@ -92,13 +91,15 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
   const outcomes = new Map<string, TargetOutcome>();
   const setupMs: Record<string, Record<string, number>> = {};
   const caching: Promise<void>[] = [];
-  // Workers start now, so that they load while the main thread calibrates, and each setup's
-  // targets go to them as soon as its calibration is ready (the next setup calibrates meanwhile).
+  // Workers start now, so that they load while the main thread calibrates; each setup's targets
+  // go to them as soon as its calibration is ready (the next setup calibrates meanwhile), and the
+  // main thread, once every setup is calibrated, takes targets too: --jobs N is this thread and
+  // N - 1 workers.
   const parallel = Math.min(opts.jobs, jobs.length);
   if (parallel > 1 && !workerScriptAvailable()) emit({ type: 'notice', t: now(), message: 'worker script missing (run `npm run build`): targets run one at a time' });
-  const pool = parallel > 1 && workerScriptAvailable() ? new TargetPool(parallel, emit) : undefined;
+  const pool = parallel > 1 && workerScriptAvailable() ? new TargetPool(parallel - 1, emit) : undefined;
   const inThisThread: [TargetJob, SetupCalibration][] = [];
-  const inWorkers: Promise<void>[] = [];
+  const inPool: Promise<void>[] = [];
   try {
     for (const setupName of [...new Set(jobs.map((j) => j.setup.name))]) {
       const setup = run.setups[setupName]!;
@@ -117,15 +118,12 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
       if (result.ms) setupMs[setupName] = result.ms;
       if (result.caching) caching.push(result.caching);
       emit({ type: 'setup-done', t: now(), setup: setupName, status: result.ms ? 'ok' : 'cached' });
-      if (pool) {
-        const packed = pack(result.calibration);
-        for (const j of mine) inWorkers.push(pool.run(j, packed).then((o) => void outcomes.set(j.target.name, o)));
-      } else {
-        for (const j of mine) inThisThread.push([j, result.calibration]);
-      }
+      if (pool) inPool.push(pool.submit(mine, result.calibration).then((os) => os.forEach((o, i) => void outcomes.set(mine[i]!.target.name, o))));
+      else for (const j of mine) inThisThread.push([j, result.calibration]);
     }
     for (const [j, cal] of inThisThread) outcomes.set(j.target.name, executeTargetJob(j, cal, emit));
-    await Promise.all(inWorkers);
+    pool?.workHere();
+    await Promise.all(inPool);
   } finally {
     await pool?.close();
   }

@@ -1,13 +1,16 @@
 /**
- * A fixed pool of worker threads for targets. Each worker receives a setup's calibration once,
- * then target jobs one at a time; a worker that dies fails its target alone and is replaced.
+ * Worker threads for targets, with the main thread as one more hand. Each setup's targets go out
+ * as one batch (its calibration sent once to every worker); every thread takes the next target
+ * from the batch's shared queue (protocol.ts) as soon as it is free. A worker that dies fails the
+ * target it held alone and is replaced; the replacement joins the unfinished batches.
  */
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { Worker } from 'node:worker_threads';
+import { threadId, Worker } from 'node:worker_threads';
 import type { EventSink } from '../events.js';
-import { failedOutcome, type TargetJob, type TargetOutcome } from '../target-job.js';
-import type { FromWorker, ToWorker } from './protocol.js';
+import { pack } from '../io/pack.js';
+import { executeTargetJob, failedOutcome, type SetupCalibration, type TargetJob, type TargetOutcome } from '../target-job.js';
+import { claimJob, type FromWorker, type ToWorker } from './protocol.js';
 
 /** The compiled worker script (the same path from src/ and dist/, both three levels below the root). */
 export const WORKER_SCRIPT = fileURLToPath(new URL('../../../dist/run/workers/worker.js', import.meta.url));
@@ -16,79 +19,82 @@ export function workerScriptAvailable(): boolean {
   return existsSync(WORKER_SCRIPT);
 }
 
-interface Slot {
-  worker: Worker;
-  sent: Set<string>;
-  busy?: { job: TargetJob; done: (o: TargetOutcome) => void };
-}
-
-interface Pending {
-  job: TargetJob;
-  calibration: unknown;
-  done: (o: TargetOutcome) => void;
+interface Batch {
+  message: ToWorker;
+  calibration: SetupCalibration;
+  claims: Int32Array;
+  outcomes: (TargetOutcome | undefined)[];
+  left: number;
+  done: (outcomes: TargetOutcome[]) => void;
 }
 
 export class TargetPool {
-  private readonly slots: Slot[] = [];
-  private readonly queue: Pending[] = [];
+  private readonly workers = new Set<Worker>();
+  private readonly batches: Batch[] = [];
+  private closing = false;
 
+  /** Start `size` workers now, so that they load while the main thread calibrates. */
   constructor(size: number, private readonly onEvent: EventSink) {
-    for (let i = 0; i < size; i++) this.slots.push(this.spawn());
+    for (let i = 0; i < size; i++) this.spawn();
   }
 
-  /** Run one target; `packedCalibration` is its setup's calibration (io/pack.ts). */
-  run(job: TargetJob, packedCalibration: unknown): Promise<TargetOutcome> {
+  /** Queue a setup's targets for the workers; resolves with their outcomes, in the order of `jobs`. */
+  submit(jobs: TargetJob[], calibration: SetupCalibration): Promise<TargetOutcome[]> {
     return new Promise((done) => {
-      this.queue.push({ job, calibration: packedCalibration, done });
-      this.pump();
+      const claims = new SharedArrayBuffer(4 * (1 + jobs.length));
+      const message: ToWorker = { type: 'batch', batch: this.batches.length, packed: pack(calibration), jobs, claims };
+      this.batches.push({ message, calibration, claims: new Int32Array(claims), outcomes: jobs.map(() => undefined), left: jobs.length, done });
+      for (const w of this.workers) w.postMessage(message);
     });
+  }
+
+  /**
+   * Take targets in this thread too, batch by batch, until no target is left to take. Workers'
+   * messages wait meanwhile (their events arrive late; their targets do not).
+   */
+  workHere(): void {
+    for (const b of this.batches) {
+      for (let i = claimJob(b.claims, threadId); i !== undefined; i = claimJob(b.claims, threadId)) {
+        this.record(b, i, executeTargetJob(b.message.jobs[i]!, b.calibration, this.onEvent));
+      }
+    }
   }
 
   async close(): Promise<void> {
-    await Promise.all(this.slots.map((s) => s.worker.terminate()));
+    this.closing = true;
+    await Promise.all([...this.workers].map((w) => w.terminate()));
   }
 
-  private spawn(): Slot {
+  private spawn(): void {
     const worker = new Worker(WORKER_SCRIPT);
-    const slot: Slot = { worker, sent: new Set() };
+    const id = worker.threadId; // -1 once the worker has stopped
+    this.workers.add(worker);
+    let failure = '';
     worker.on('message', (msg: FromWorker) => {
       if (msg.type === 'event') this.onEvent(msg.event);
-      else this.finish(slot, msg.outcome);
+      else this.record(this.batches[msg.batch]!, msg.index, msg.outcome);
     });
-    worker.on('error', (e) => this.replace(slot, `worker failed: ${e.message}`));
+    worker.on('error', (e) => void (failure = `worker failed: ${e.message}`));
     worker.on('exit', (code) => {
-      if (slot.busy) this.replace(slot, `worker exited with code ${code}`);
+      this.workers.delete(worker);
+      if (!this.closing) this.replace(id, failure || `worker exited with code ${code}`);
     });
-    return slot;
+    for (const b of this.batches) if (b.left > 0) worker.postMessage(b.message);
   }
 
-  private finish(slot: Slot, outcome: TargetOutcome): void {
-    const busy = slot.busy;
-    slot.busy = undefined;
-    busy?.done(outcome);
-    this.pump();
-  }
-
-  private replace(slot: Slot, reason: string): void {
-    const busy = slot.busy;
-    slot.busy = undefined;
-    const i = this.slots.indexOf(slot);
-    if (i >= 0) this.slots.splice(i, 1, this.spawn());
-    void slot.worker.terminate();
-    busy?.done(failedOutcome(busy.job, 'run.worker-died', reason, {}));
-    this.pump();
-  }
-
-  private pump(): void {
-    for (const slot of this.slots) {
-      if (slot.busy || this.queue.length === 0) continue;
-      const next = this.queue.shift()!;
-      slot.busy = { job: next.job, done: next.done };
-      if (!slot.sent.has(next.job.setupKey)) {
-        slot.worker.postMessage({ type: 'calibration', setupKey: next.job.setupKey, packed: next.calibration } satisfies ToWorker);
-        slot.sent.add(next.job.setupKey);
-      }
-      slot.worker.postMessage({ type: 'target', job: next.job } satisfies ToWorker);
+  /** A worker died (its messages sent before are in): its unfinished target fails, a new worker takes its place. */
+  private replace(deadThreadId: number, reason: string): void {
+    for (const b of this.batches) {
+      b.outcomes.forEach((o, i) => {
+        if (o === undefined && Atomics.load(b.claims, 1 + i) === deadThreadId + 1) this.record(b, i, failedOutcome(b.message.jobs[i]!, 'run.worker-died', reason, {}));
+      });
     }
+    if (this.batches.some((b) => b.left > 0)) this.spawn();
+  }
+
+  private record(b: Batch, index: number, outcome: TargetOutcome): void {
+    if (b.outcomes[index] !== undefined) return;
+    b.outcomes[index] = outcome;
+    if (--b.left === 0) b.done(b.outcomes as TargetOutcome[]);
   }
 }
