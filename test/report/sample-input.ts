@@ -41,7 +41,7 @@ export function sampleReportInput(nBins = 12, object = 'Sample galaxy'): TargetR
     points: radii.map((r) => ({ rArcsec: r / 0.15, rKpc: r, vRot: 150 * (1 - Math.exp(-r)), errStat: 3, errSys: 5, errTotal: 5.8, errAsymmetry: 4, errInclination: 3, vApproaching: 148 * (1 - Math.exp(-r)), vReceding: 152 * (1 - Math.exp(-r)), nApproaching: 2, nReceding: 2, oneSided: r === 5 })),
     light: radii.map((r) => ({ rArcsec: r / 0.15, rKpc: r, flux: 100 * Math.exp(-r), fluxApproaching: 98 * Math.exp(-r), fluxReceding: 102 * Math.exp(-r) })),
     dynamics: radii.map((r) => ({ rKpc: r, massMsun: 1e10 * r, massErrMsun: 1e9, logSlope: 0.1 })),
-    shape: 'flat', vOuter: 148,
+    shape: 'flat', shapeSummary: 'flat: the radius is still inside most of the mass', vOuter: 148,
   };
   return {
     name: 'Sample galaxy', object, setup: 'red', status: 'ok', solution, lines, curve,

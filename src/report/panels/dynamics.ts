@@ -1,17 +1,8 @@
 import { COLORS } from '../colors.js';
 import { escapeHtml } from '../html.js';
 import { renderPlot } from '../plot.js';
-import type { CurveShape } from '../../products/curve.js';
 import type { TargetReportInput } from '../types.js';
 import { missing, section } from './section.js';
-
-const SHAPE_TEXT: Record<CurveShape, string> = {
-  rising: 'Rising at the last measured radius: the mass keeps growing faster than the radius there.',
-  flat: 'Flat in the outer part: the last measured radius is still inside most of the mass (M grows with R).',
-  declining: 'Declining in the outer part, but more slowly than Keplerian.',
-  keplerian: 'Declining towards Keplerian (V \u221d R^-1/2): the outer radii lie outside most of the mass.',
-  undetermined: 'Too few points to say how the outer curve behaves.',
-};
 
 /** Enclosed mass M(<R) = V^2 R / G, the logarithmic slope, and what the shape means. */
 export function dynamicsPanel(input: TargetReportInput): string {
@@ -36,7 +27,7 @@ export function dynamicsPanel(input: TargetReportInput): string {
   return section(
     'dynamics',
     'Enclosed mass and curve shape',
-    `<div class="row">${massPlot}${slopePlot}</div><p class="shape"><strong>${escapeHtml(c.shape)}</strong>: ${escapeHtml(SHAPE_TEXT[c.shape])}</p>`,
+    `<div class="row">${massPlot}${slopePlot}</div><p class="shape"><strong>${escapeHtml(c.shape)}</strong>: ${escapeHtml(c.shapeSummary)}</p>`,
     'Dashed lines in the slope panel: flat (0) and Keplerian (\u22120.5).',
   );
 }

@@ -1,4 +1,2 @@
 export * from './settings.js';
-export * from './log-slope.js';
-export * from './shape.js';
-export * from './dynamics.js';
+export { computeDynamics, type DynamicsResult } from './dynamics.js';

@@ -1,10 +1,3 @@
 export * from './settings.js';
-export * from './build.js';
-export * from './symmetry.js';
-export * from './mirror.js';
-export * from './inclination.js';
-export * from './place.js';
-export * from './bins.js';
-export * from './fold.js';
-export * from './light.js';
-export * from './continuum-peak.js';
+export { buildRotationCurve } from './build.js';
+export { resolveInclination, type ResolvedInclination } from './inclination.js';

@@ -2,7 +2,8 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import { AU_M, KPC_M } from '../../../src/physics/index.js';
 import type { CurvePoint } from '../../../src/products/curve.js';
-import { computeDynamics, fitLogSlope } from '../../../src/stages/dynamics/index.js';
+import { computeDynamics } from '../../../src/stages/dynamics/index.js';
+import { fitLogSlope } from '../../../src/stages/dynamics/log-slope.js';
 
 const ref = JSON.parse(readFileSync(new URL('../../../fixtures/geometry/reference.json', import.meta.url), 'utf8'));
 

@@ -16,7 +16,7 @@ import { calibrateSetup } from '../../../src/run/pipeline/setup-stages.js';
 import { runTargetStages } from '../../../src/run/pipeline/target-stages.js';
 import { StageTimer } from '../../../src/run/pipeline/timer.js';
 import { simulateRun, trueRotation, writeSimulatedRun, type SimVariant } from '../../../src/sim/index.js';
-import { binIndex } from '../../../src/stages/geometry/index.js';
+import { binIndex } from '../../../src/stages/geometry/bins.js';
 
 const C_KMS = 299792.458; // SI, exact
 const DEG = Math.PI / 180;

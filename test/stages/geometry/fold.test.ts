@@ -1,7 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import type { Geometry, PvPoint } from '../../../src/products/curve.js';
-import { binEdgesFromData, binIndex, foldCurve } from '../../../src/stages/geometry/index.js';
+import { binEdgesFromData, binIndex } from '../../../src/stages/geometry/bins.js';
+import { foldCurve } from '../../../src/stages/geometry/fold.js';
 
 const ref = JSON.parse(readFileSync(new URL('../../../fixtures/geometry/reference.json', import.meta.url), 'utf8'));
 

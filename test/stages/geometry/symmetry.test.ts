@@ -1,5 +1,6 @@
 import { describe, expect, test } from 'vitest';
-import { fitSymmetry, pvSamples } from '../../../src/stages/geometry/index.js';
+import { fitSymmetry } from '../../../src/stages/geometry/symmetry.js';
+import { pvSamples } from '../../../src/stages/geometry/mirror.js';
 import { Rng } from '../../../src/kernels/random.js';
 
 /** An antisymmetric curve about (c, vs) sampled every `step` rows, with Gaussian noise of error e(s). */
