@@ -3,7 +3,7 @@
  * the 2-D spectrum as a data URI without a dependency.
  */
 import { deflateSync } from 'node:zlib';
-import { selectInPlace } from '../kernels/robust.js';
+import { bucketSelect } from '../kernels/robust.js';
 
 const CRC_TABLE = (() => {
   const t = new Uint32Array(256);
@@ -68,11 +68,9 @@ export function stretchToGrey(data: Float32Array): Uint8Array {
   for (let i = 0; i < data.length; i++) if (Number.isFinite(data[i]!)) finite[count++] = data[i]!;
   const grey = new Uint8Array(data.length);
   if (count === 0) return grey.fill(255);
-  // Two order statistics by selection (the values a full sort would put there), the higher first:
-  // selecting it leaves everything below it in front, where the lower one is then selected.
-  const kHi = Math.floor(0.995 * (count - 1));
-  const hi = selectInPlace(finite, count, kHi);
-  const lo = selectInPlace(finite, kHi + 1, Math.floor(0.01 * (count - 1)));
+  // Two order statistics by selection (the values a full sort would put there).
+  const hi = bucketSelect(finite, count, Math.floor(0.995 * (count - 1)));
+  const lo = bucketSelect(finite, count, Math.floor(0.01 * (count - 1)));
   const span = hi > lo ? hi - lo : 1;
   const soft = 0.05;
   const norm = Math.asinh(1 / soft);
