@@ -33,8 +33,8 @@ export class TargetPool {
   private readonly batches: Batch[] = [];
   private closing = false;
 
-  /** Start `size` workers now, so that they load while the main thread calibrates. */
-  constructor(size: number, private readonly onEvent: EventSink) {
+  /** Start `size` workers now, so that they load while the main thread calibrates (`script`: another worker, for tests). */
+  constructor(size: number, private readonly onEvent: EventSink, private readonly script: string = WORKER_SCRIPT) {
     for (let i = 0; i < size; i++) this.spawn();
   }
 
@@ -66,7 +66,7 @@ export class TargetPool {
   }
 
   private spawn(): void {
-    const worker = new Worker(WORKER_SCRIPT);
+    const worker = new Worker(this.script);
     const id = worker.threadId; // -1 once the worker has stopped
     this.workers.add(worker);
     let failure = '';
