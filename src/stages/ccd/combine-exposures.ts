@@ -123,8 +123,32 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
   const mask = masks[0]!;
   const rejected = new Uint8Array(nExp === 1 ? 0 : n);
   let grown = 0;
+  // Constants of the usual pixel, where no exposure is left out (the same sums as below, taken once).
+  let sumTAll = 0;
+  for (let i = 0; i < nExp; i++) sumTAll += t[i]!;
+  const totalSq = total * total;
+  const sumTAllSq = sumTAll * sumTAll;
+  const biasScaleAll = (total * nExp) / sumTAll;
+  const biasTermAll = biasScaleAll * biasScaleAll * biasE2;
+  const { masterFlat, flatVariance } = cal;
   for (let p = 0; p < n; p++) {
     let out = nExp === 1 ? 0 : grownBits[p]! & all;
+    if (out === 0) {
+      let flagsAll = 0;
+      let sumVAll = 0;
+      let sumVarAll = 0;
+      for (let i = 0; i < nExp; i++) {
+        flagsAll |= masks[i]![p]!;
+        sumVAll += scis[i]![p]!;
+        sumVarAll += vars[i]![p]!;
+      }
+      const value = (total * sumVAll) / sumTAll;
+      const f = masterFlat[p]!;
+      sci[p] = value;
+      variance[p] = (totalSq * sumVarAll) / sumTAllSq + biasTermAll / (f * f) + (value * value * flatVariance[p]!) / (f * f);
+      mask[p] = flagsAll;
+      continue;
+    }
     let flags = 0;
     if (out === all) {
       // Every exposure rejected: keep the one with the lowest rate, flagged.
