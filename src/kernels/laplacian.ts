@@ -16,21 +16,7 @@ export function positiveLaplacian(src: Float32Array, width: number, height: numb
     const up = y + 1 < height ? row + width : row;
     const down = y > 0 ? row - width : row;
     for (let x = 0; x < width; x++) {
-      const v2 = 2 * src[row + x]!;
-      const left = src[row + (x > 0 ? x - 1 : x)]!;
-      const right = src[row + (x + 1 < width ? x + 1 : x)]!;
-      const below = src[down + x]!;
-      const above = src[up + x]!;
-      let s = 0;
-      let t = v2 - left - below;
-      if (t > 0) s += t;
-      t = v2 - right - below;
-      if (t > 0) s += t;
-      t = v2 - left - above;
-      if (t > 0) s += t;
-      t = v2 - right - above;
-      if (t > 0) s += t;
-      dst[row + x] = 0.25 * s;
+      dst[row + x] = core(2 * src[row + x]!, src[row + (x > 0 ? x - 1 : x)]!, src[row + (x + 1 < width ? x + 1 : x)]!, src[down + x]!, src[up + x]!);
     }
   }
   return dst;
@@ -39,11 +25,17 @@ export function positiveLaplacian(src: Float32Array, width: number, height: numb
 /** L+ at one pixel (same rule and edges as positiveLaplacian), for local updates. */
 export function positiveLaplacianAt(src: Float32Array, width: number, height: number, x: number, y: number): number {
   const row = y * width;
-  const v2 = 2 * src[row + x]!;
-  const left = src[row + (x > 0 ? x - 1 : x)]!;
-  const right = src[row + (x + 1 < width ? x + 1 : x)]!;
-  const below = src[(y > 0 ? row - width : row) + x]!;
-  const above = src[(y + 1 < height ? row + width : row) + x]!;
+  return core(
+    2 * src[row + x]!,
+    src[row + (x > 0 ? x - 1 : x)]!,
+    src[row + (x + 1 < width ? x + 1 : x)]!,
+    src[(y > 0 ? row - width : row) + x]!,
+    src[(y + 1 < height ? row + width : row) + x]!,
+  );
+}
+
+/** The rule for one pixel from twice its value and its four neighbours. */
+function core(v2: number, left: number, right: number, below: number, above: number): number {
   let s = 0;
   let t = v2 - left - below;
   if (t > 0) s += t;
