@@ -36,6 +36,6 @@ describe('the whorl command', () => {
   it('exits 2 with one line naming the file when the manifest is missing', async () => {
     const r = await whorl('reduce', '/nonexistent/run.yaml');
     expect(r.code).toBe(2);
-    expect(r.err).toBe('whorl: /nonexistent/run.yaml: cannot read the manifest: ENOENT\n');
+    expect(r.err).toBe('whorl: /nonexistent/run.yaml: cannot read the manifest: no such file (expected a YAML run manifest)\n');
   });
 });

@@ -46,7 +46,9 @@ export function loadManifest(path: string): ResolvedRun {
   try {
     text = readFileSync(manifestPath, 'utf8');
   } catch (e) {
-    throw new InputError('manifest.unreadable', `cannot read the manifest: ${(e as NodeJS.ErrnoException).code ?? String(e)}`, { file: path });
+    const code = (e as NodeJS.ErrnoException).code;
+    const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'is a folder, not a file' : code === 'EACCES' ? 'not readable (permission denied)' : (code ?? String(e));
+    throw new InputError('manifest.unreadable', `cannot read the manifest: ${why}`, { file: path }, { expected: 'a YAML run manifest' });
   }
   return resolveManifest(parseManifestText(text, path), manifestPath, path);
 }

@@ -160,6 +160,6 @@ describe('loadManifest', () => {
   });
 
   it('says when the manifest file cannot be read', () => {
-    expect(() => loadManifest(join(dir, 'absent.yaml'))).toThrow(/cannot read the manifest: ENOENT/);
+    expect(() => loadManifest(join(dir, 'absent.yaml'))).toThrow(/cannot read the manifest: no such file/);
   });
 });
