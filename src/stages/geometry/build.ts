@@ -44,7 +44,16 @@ export function buildRotationCurve(
   };
 
   const good = velocities.points.filter((p) => usable(p, settings.rejectFlags)).sort((a, b) => a.yCentre - b.yCentre);
-  if (good.length < 6) throw new StageError('geometry', 'too-few-points', `${good.length} usable velocity points; at least 6 are needed to fold a curve (a lower snr_target in the manifest gives more, smaller bins)`);
+  if (good.length < 6) {
+    const total = velocities.points.length;
+    const flagged = velocities.points.filter((p) => Number.isFinite(p.vLos) && (p.flags & settings.rejectFlags) !== 0).length;
+    const why = total === 0 ? 'no row bin was measured' : `of ${total} row bins, ${flagged} carry flags that keep them out and ${total - flagged - good.length} have no velocity`;
+    throw new StageError(
+      'geometry',
+      'too-few-points',
+      `${good.length} usable velocity points (${why}); at least 6 are needed to fold a curve. Check that the target's frames are science exposures of an emission-line galaxy; if they are, a lower snr_target in the manifest gives more, smaller bins`,
+    );
+  }
   const samples = pvSamples(
     Float64Array.from(good, (p) => p.yCentre),
     Float64Array.from(good, (p) => p.vLos),

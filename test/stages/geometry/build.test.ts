@@ -119,4 +119,11 @@ describe('exclusions and failures', () => {
     const few = { ...u, points: u.points.slice(0, 5) };
     expect(() => buildRotationCurve(few, synthLines(few, ROWS, 100), settingsFor(t))).toThrow(/at least 6/);
   });
+
+  test('with no velocity in any bin (frames without emission lines, say) the error counts the bins and says what to check', () => {
+    const none = { ...v, points: v.points.map((p) => ({ ...p, vLos: NaN, vLosErr: NaN })) };
+    expect(() => buildRotationCurve(none, synthLines(none, ROWS, 100), settingsFor(t))).toThrow(
+      new RegExp(`0 usable velocity points \\(of ${v.points.length} row bins, 0 carry flags that keep them out and ${v.points.length} have no velocity\\).*science exposures`),
+    );
+  });
 });
