@@ -1,7 +1,7 @@
 /**
  * Writing FITS files (FITS Standard 4.0): an empty primary HDU or an image in it, then IMAGE and
  * BINTABLE extensions, each with DATASUM and CHECKSUM (checksum convention). The output is sized
- * first and filled in place: one allocation of the whole file.
+ * first and filled in place: one allocation of the whole file, or of each HDU (writeFitsByHdu).
  */
 import { InputError } from '../errors.js';
 import { BLOCK_BYTES } from './card-parse.js';
@@ -89,30 +89,58 @@ function putAscii(out: Uint8Array, offset: number, text: string): void {
   for (let i = 0; i < text.length; i++) out[offset + i] = text.charCodeAt(i);
 }
 
+interface SizedHdu {
+  hdu: PlannedHdu;
+  headerBytes: number;
+  paddedData: number;
+}
+
+function sizedHdus(hdus: WriteHdu[], options: WriteOptions): SizedHdu[] {
+  const planned = plan(hdus, options);
+  if (options.checksum ?? true) for (const p of planned) p.cards.push({ key: 'CHECKSUM', value: '0000000000000000' }, { key: 'DATASUM', value: '0' });
+  return planned.map((hdu) => ({ hdu, headerBytes: formatHeader(hdu.cards).length, paddedData: Math.ceil(hdu.dataBytes / BLOCK_BYTES) * BLOCK_BYTES }));
+}
+
+/** Fill header and data of one HDU at `offset` of `out`; returns the offset after it. */
+function fillHdu(s: SizedHdu, checksum: boolean, out: Uint8Array, offset: number): number {
+  const p = s.hdu;
+  const dataOffset = offset + s.headerBytes;
+  p.encode(out, dataOffset);
+  const end = dataOffset + s.paddedData;
+  if (checksum) {
+    const dataSum = onesComplementSum(out, dataOffset, end);
+    p.cards[p.cards.length - 1]!.value = String(dataSum);
+    const text = formatHeader(p.cards);
+    putAscii(out, offset, text);
+    const total = addSums(onesComplementSum(out, offset, dataOffset), dataSum);
+    putAscii(out, offset + text.indexOf("CHECKSUM= '") + 11, encodeChecksum(complement(total)));
+  } else {
+    putAscii(out, offset, formatHeader(p.cards));
+  }
+  return end;
+}
+
 /** Serialise HDUs to the bytes of a FITS file. */
 export function writeFits(hdus: WriteHdu[], options: WriteOptions = {}): Uint8Array {
   const checksum = options.checksum ?? true;
-  const planned = plan(hdus, options);
-  if (checksum) for (const p of planned) p.cards.push({ key: 'CHECKSUM', value: '0000000000000000' }, { key: 'DATASUM', value: '0' });
-  const headerBytes = planned.map((p) => formatHeader(p.cards).length);
-  const paddedData = planned.map((p) => Math.ceil(p.dataBytes / BLOCK_BYTES) * BLOCK_BYTES);
-  const out = new Uint8Array(headerBytes.reduce((a, b) => a + b, 0) + paddedData.reduce((a, b) => a + b, 0));
+  const sized = sizedHdus(hdus, options);
+  const out = new Uint8Array(sized.reduce((n, s) => n + s.headerBytes + s.paddedData, 0));
   let offset = 0;
-  planned.forEach((p, i) => {
-    const dataOffset = offset + headerBytes[i]!;
-    p.encode(out, dataOffset);
-    const end = dataOffset + paddedData[i]!;
-    if (checksum) {
-      const dataSum = onesComplementSum(out, dataOffset, end);
-      p.cards[p.cards.length - 1]!.value = String(dataSum);
-      const text = formatHeader(p.cards);
-      putAscii(out, offset, text);
-      const total = addSums(onesComplementSum(out, offset, dataOffset), dataSum);
-      putAscii(out, offset + text.indexOf("CHECKSUM= '") + 11, encodeChecksum(complement(total)));
-    } else {
-      putAscii(out, offset, formatHeader(p.cards));
-    }
-    offset = end;
-  });
+  for (const s of sized) offset = fillHdu(s, checksum, out, offset);
   return out;
+}
+
+/**
+ * The same bytes as writeFits, one HDU at a time (header and data of each in its own array), so
+ * that a large file can be written without holding all of it: each array can be dropped once
+ * written. The specs are checked before the first HDU is yielded.
+ */
+export function* writeFitsByHdu(hdus: WriteHdu[], options: WriteOptions = {}): Generator<Uint8Array, void, undefined> {
+  const checksum = options.checksum ?? true;
+  const sized = sizedHdus(hdus, options);
+  for (const s of sized) {
+    const out = new Uint8Array(s.headerBytes + s.paddedData);
+    fillHdu(s, checksum, out, 0);
+    yield out;
+  }
 }

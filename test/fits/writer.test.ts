@@ -7,6 +7,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { Header, parseFits, readImage, readTable, writeFits, type WriteHdu } from '../../src/fits/index.js';
+import { writeFitsByHdu } from '../../src/fits/write.js';
 import { astropyJson, fitsverify, hasAstropy, hasFitsverify } from './outside-tools.js';
 
 const tmp = mkdtempSync(join(tmpdir(), 'whorl-fits-'));
@@ -77,6 +78,14 @@ describe('writeFits', () => {
     expect(file.hdus.map((h) => h.name)).toEqual([undefined, 'SCI', 'VAR', 'MASK', 'RAW', 'I32', 'CURVE']);
     expect(file.hdus[0]!.header.getNumber('NAXIS')).toBe(0);
     expect(file.hdus[0]!.header.getString('TELESCOP')).toBe('Vessel Peak 1.8m');
+  });
+
+  it('writeFitsByHdu yields one whole-block array per HDU, together the very bytes fitsverify and astropy check below', () => {
+    const parts = [...writeFitsByHdu(hdus, { primaryHeader })];
+    expect(parts).toHaveLength(hdus.length + 1);
+    for (const p of parts) expect(p.length % 2880).toBe(0);
+    expect(Buffer.concat(parts).equals(Buffer.from(bytes))).toBe(true);
+    expect(Buffer.concat([...writeFitsByHdu(hdus, { checksum: false })]).equals(Buffer.from(writeFits(hdus, { checksum: false })))).toBe(true);
   });
 
   it('reads back its own values exactly (whorl reader)', () => {

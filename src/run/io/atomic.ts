@@ -26,14 +26,19 @@ function temporaryName(path: string): string {
   return join(dir, `.${basename(path)}.partial-${HOST}-${process.pid}-${counter++}`);
 }
 
-/** Write `data` to `path` atomically (creating the folder). */
-export function writeFileAtomic(path: string, data: string | Uint8Array): void {
+/**
+ * Write `data` to `path` atomically (creating the folder). `data` may come in chunks (e.g. one
+ * per FITS HDU), each written as it comes, so a large file need not be held whole.
+ */
+export function writeFileAtomic(path: string, data: string | Uint8Array | Iterable<Uint8Array>): void {
   const tmp = temporaryName(path);
   const fd = openSync(tmp, 'w');
   try {
-    const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
-    let off = 0;
-    while (off < bytes.length) off += writeSync(fd, bytes, off, bytes.length - off);
+    const chunks = typeof data === 'string' ? [Buffer.from(data, 'utf8')] : data instanceof Uint8Array ? [data] : data;
+    for (const bytes of chunks) {
+      let off = 0;
+      while (off < bytes.length) off += writeSync(fd, bytes, off, bytes.length - off);
+    }
   } catch (e) {
     closeSync(fd);
     rmSync(tmp, { force: true });

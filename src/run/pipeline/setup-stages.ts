@@ -6,7 +6,7 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Diagnostic } from '../../diagnostics.js';
-import { writeFits } from '../../fits/write.js';
+import { writeFitsByHdu } from '../../fits/write.js';
 import { loadLampLines, readLineListFile, type LampLine } from '../../physics/catalogues.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
 import { formatArcLinesCsv, formatSolutionJson } from '../../products/writers/wavelength.js';
@@ -29,8 +29,11 @@ import { StageTimer } from './timer.js';
 /** Stage names of a setup's calibration, in order (progress and cache keys). */
 export const SETUP_STAGES = ['load calibrations', 'ccd calibration', 'wavelength solution', 'write calibrations'] as const;
 
+/** What the targets need of the CCD calibration: all but the calibrated arc, dropped once solved. */
+export type ScienceCcdCalibration = Omit<CcdCalibration, 'arc'>;
+
 export interface SetupCalibration {
-  ccd: CcdCalibration;
+  ccd: ScienceCcdCalibration;
   solution: WavelengthSolution;
   diagnostics: Diagnostic[];
   settings: { ccd: CcdSettings; arc: ArcSettings };
@@ -70,10 +73,8 @@ export function calibrateSetupCached(setup: ResolvedSetup, run: ResolvedRun, key
 export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: StageTimer): SetupCalibration {
   const ccdSettings = ccdSettingsFor(setup);
   const arcSettings = arcSettingsFor(setup);
-  const ccd = ccdCalibration(setup, run, ccdSettings, timer);
+  const { ccd, solution } = solvedCalibration(setup, run, ccdSettings, arcSettings, timer);
   const names = (paths: readonly string[]) => paths.map((p) => manifestRelative(run.baseDir, p));
-  const lampLines: LampLine[] = [...loadLampLines(setup.lamps), ...setup.line_lists.flatMap((f) => readLineListFile(f))].sort((a, b) => a.wavelength - b.wavelength);
-  const solution = timer.stage(SETUP_STAGES[2], () => solveWavelengths(ccd.arc, lampLines, arcSettings));
   const history = [
     `whorl ${VERSION}: setup ${setup.name}: ${setup.bias.length} bias, ${setup.flat.length} flat, ${setup.arc.length} arc frames`,
     `ccd: gain ${ccd.gain} e-/ADU, read noise ${ccd.readNoiseE} e-, ${ccd.badColumns.length} bad columns`,
@@ -87,7 +88,7 @@ export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: St
       ['flat.fits', masterFlatFits(ccd, names(setup.flat), history)],
     ];
     const written = files.map(([name, fits]) => {
-      writeFileAtomic(join(run.outputDir, dir, name), writeFits(fits.hdus, { primaryHeader: fits.primaryHeader }));
+      writeFileAtomic(join(run.outputDir, dir, name), writeFitsByHdu(fits.hdus, { primaryHeader: fits.primaryHeader }));
       return join(dir, name);
     });
     const texts: [string, string][] = [
@@ -101,6 +102,17 @@ export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: St
     return written;
   });
   return { ccd, solution, diagnostics: timer.diagnostics, settings: { ccd: ccdSettings, arc: arcSettings }, products, history };
+}
+
+/**
+ * The CCD stage and the wavelength solution in a function of their own, so that the calibrated
+ * arc (tens of MB at full size) is freed when it returns: no target needs it, nor the cache.
+ */
+function solvedCalibration(setup: ResolvedSetup, run: ResolvedRun, ccdSettings: CcdSettings, arcSettings: ArcSettings, timer: StageTimer): { ccd: ScienceCcdCalibration; solution: WavelengthSolution } {
+  const { arc, ...ccd } = ccdCalibration(setup, run, ccdSettings, timer);
+  const lampLines: LampLine[] = [...loadLampLines(setup.lamps), ...setup.line_lists.flatMap((f) => readLineListFile(f))].sort((a, b) => a.wavelength - b.wavelength);
+  const solution = timer.stage(SETUP_STAGES[2], () => solveWavelengths(arc, lampLines, arcSettings));
+  return { ccd, solution };
 }
 
 /** Loading and the CCD stage in a function of their own, so the raw frames are freed when it returns. */
