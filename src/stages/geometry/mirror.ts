@@ -14,6 +14,8 @@ export interface PvSamples {
   e: Float64Array;
   /** Half-width (rows) of the mirror's smoothing kernel; see pvSamples(). */
   kernelRows: number;
+  /** Scratch of interpolate(), one per point: the weights of its first pass, reused by its second. */
+  weights: Float64Array;
 }
 
 /** Samples from sorted arrays, with the kernel width set from the median row spacing. */
@@ -21,7 +23,7 @@ export function pvSamples(y: Float64Array, v: Float64Array, e: Float64Array): Pv
   const gaps = new Float64Array(Math.max(0, y.length - 1));
   for (let k = 1; k < y.length; k++) gaps[k - 1] = y[k]! - y[k - 1]!;
   const spacing = gaps.length > 0 ? median(gaps) : 1;
-  return { y, v, e, kernelRows: KERNEL_SPACINGS * (spacing > 0 ? spacing : 1) };
+  return { y, v, e, kernelRows: KERNEL_SPACINGS * (spacing > 0 ? spacing : 1), weights: new Float64Array(y.length) };
 }
 
 export interface FoldChiSquare {
@@ -37,13 +39,13 @@ const KERNEL_SPACINGS = 2.5;
  * The curve at row m from the active points other than `skip`: a local linear fit with biweight
  * kernel weights (1 - (x/h)^2)^2 times the error weights (smooth in m, and it averages down the node noise that
  * would make chi-square bumpy); out = [value, variance]. False when m lies outside the points.
+ * `lo` is the first point with y >= m - kernelRows (lowerFrom).
  */
-function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, out: Float64Array): boolean {
-  const { y, v, e } = p;
+function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, lo: number, out: Float64Array): boolean {
+  const { y, v, e, weights } = p;
   const n = y.length;
   if (!(m >= y[0]! && m <= y[n - 1]!)) return false;
   const h = p.kernelRows;
-  const lo = lowerIndex(y, m - h);
   // Weighted sums of the local linear fit in x = y - m; the value at m is the intercept.
   let s0 = 0;
   let s1 = 0;
@@ -53,6 +55,7 @@ function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, 
     const x = y[k]! - m;
     const q = 1 - (x / h) ** 2;
     const w = (q * q) / (e[k]! * e[k]!);
+    weights[k] = w;
     s0 += w;
     s1 += w * x;
     s2 += w * x * x;
@@ -64,15 +67,24 @@ function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, 
   let variance = 0;
   for (let k = lo; k < n && y[k]! <= m + h; k++) {
     if (active[k] === 0 || k === skip) continue;
-    const x = y[k]! - m;
-    const q = 1 - (x / h) ** 2;
-    const l = ((q * q) / (e[k]! * e[k]!)) * ((s2 - s1 * x) / det);
+    const l = weights[k]! * ((s2 - s1 * (y[k]! - m)) / det);
     value += l * v[k]!;
     variance += l * l * e[k]! * e[k]!;
   }
   out[0] = value;
   out[1] = variance;
   return true;
+}
+
+/**
+ * lowerIndex(y, x) found by stepping from `from`, the answer for a nearby x: the callers' mirror
+ * rows 2c - y_i move steadily down the points, so this takes a step or two, not a binary search.
+ */
+function lowerFrom(y: Float64Array, x: number, from: number): number {
+  let k = from;
+  while (k > 0 && y[k - 1]! >= x) k--;
+  while (k < y.length && y[k]! < x) k++;
+  return k;
 }
 
 /** Chi-square of the fold about row c, comparing the active points with |y - c0| <= half. */
@@ -82,9 +94,12 @@ export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: n
   let swx = 0;
   let swxx = 0;
   let n = 0;
+  let lo = lowerIndex(y, 2 * c - y[0]! - p.kernelRows);
   for (let i = 0; i < y.length; i++) {
     if (active[i] === 0 || Math.abs(y[i]! - c0) > half) continue;
-    if (!interpolate(p, active, i, 2 * c - y[i]!, scratch)) continue;
+    const m = 2 * c - y[i]!;
+    lo = lowerFrom(y, m - p.kernelRows, lo);
+    if (!interpolate(p, active, i, m, lo, scratch)) continue;
     const w = 1 / (e[i]! ** 2 + scratch[1]!);
     const x = v[i]! + scratch[0]!;
     sw += w;
@@ -109,9 +124,12 @@ export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: n
 export function dropAsymmetricPoints(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, vSys: number, limit: number, scratch: Float64Array): number {
   const { y, v, e } = p;
   const z = new Float64Array(y.length).fill(NaN);
+  let lo = lowerIndex(y, 2 * c - y[0]! - p.kernelRows);
   for (let i = 0; i < y.length; i++) {
     if (active[i] === 0 || Math.abs(y[i]! - c0) > half) continue;
-    if (!interpolate(p, active, i, 2 * c - y[i]!, scratch)) continue;
+    const m = 2 * c - y[i]!;
+    lo = lowerFrom(y, m - p.kernelRows, lo);
+    if (!interpolate(p, active, i, m, lo, scratch)) continue;
     z[i] = (v[i]! + scratch[0]! - 2 * vSys) / Math.sqrt(e[i]! ** 2 + scratch[1]!);
   }
   const cut = limit * Math.max(1, madSigma(z));
