@@ -108,17 +108,22 @@ function fitSpline(input: SkyFitInput, spline: UniformCubicBSpline, slit: Float6
       rhs[k + 2] += wd * b2;
       rhs[k + 3] += wd * b3;
       const a = k * 4;
-      // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q).
-      normal[a] += w * b0 * b0;
-      normal[a + 4] += w * b1 * b1;
-      normal[a + 5] += w * b1 * b0;
-      normal[a + 8] += w * b2 * b2;
-      normal[a + 9] += w * b2 * b1;
-      normal[a + 10] += w * b2 * b0;
-      normal[a + 12] += w * b3 * b3;
-      normal[a + 13] += w * b3 * b2;
-      normal[a + 14] += w * b3 * b1;
-      normal[a + 15] += w * b3 * b0;
+      // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q). w * b_p once per row of
+      // the band: (w * b_p) * b_q is the very product w * b_p * b_q (left to right).
+      const w0 = w * b0;
+      const w1 = w * b1;
+      const w2 = w * b2;
+      const w3 = w * b3;
+      normal[a] += w0 * b0;
+      normal[a + 4] += w1 * b1;
+      normal[a + 5] += w1 * b0;
+      normal[a + 8] += w2 * b2;
+      normal[a + 9] += w2 * b1;
+      normal[a + 10] += w2 * b0;
+      normal[a + 12] += w3 * b3;
+      normal[a + 13] += w3 * b2;
+      normal[a + 14] += w3 * b1;
+      normal[a + 15] += w3 * b0;
     }
   }
   if (used < n / 4) return null;

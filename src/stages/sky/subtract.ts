@@ -109,8 +109,9 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   }
   if (masked > 0) log.info('sky-emission', `${masked} sky-row pixels with faint line emission left out of the sky fit`, { actual: masked });
 
-  // 4. Subtract; variance grows by the model's own.
-  const sci = new Float32Array(width * height);
+  // 4. Subtract; variance grows by the model's own. The residual image is done with: its array
+  // takes the result (one full-size allocation fewer).
+  const sci = residual;
   const variance = new Float32Array(width * height);
   for (let y = 0; y < height; y++) {
     evaluateRow(model, solution.wave, y * width, width, y, value, modelVar);
