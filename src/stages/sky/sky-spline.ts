@@ -59,8 +59,12 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
   }
   const spline = UniformCubicBSpline.covering(lo, hi, knotSpacingPx * dispersion);
   let fit = fitSpline(input, spline, slit, null, clipSigma, rowStep);
-  // Each further round clips against the previous model while it accumulates the next fit.
-  for (let round = 0; round < iterations && fit !== null && fit.dropped !== 0; round++) fit = fitSpline(input, spline, slit, fit, clipSigma, rowStep);
+  // Each further round clips against the previous model while it accumulates the next fit; a
+  // round that drops nothing has converged.
+  for (let round = 0; round < iterations && fit !== null; round++) {
+    fit = fitSpline(input, spline, slit, fit, clipSigma, rowStep);
+    if (fit !== null && fit.dropped === 0) break;
+  }
   return fit;
 }
 
