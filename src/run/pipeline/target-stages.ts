@@ -20,7 +20,6 @@ import type { SkySettings } from '../../stages/sky/settings.js';
 import { computeVelocities } from '../../stages/velocity/compute.js';
 import type { VelocitySettings } from '../../stages/velocity/settings.js';
 import { subtractSky } from '../../stages/sky/subtract.js';
-import type { CcdCalibration } from '../../stages/ccd/calibration.js';
 import type { CcdSettings } from '../../stages/ccd/settings.js';
 import type { TargetJob } from '../target-job.js';
 import { loadFrames } from './frames.js';
@@ -89,6 +88,5 @@ function calibratedScience(job: TargetJob, cal: SetupCalibration, settings: Targ
 /** Loading and the CCD stage in a function of their own, so the raw frames are freed before the flip copies the frame. */
 function combinedScience(job: TargetJob, cal: SetupCalibration, settings: TargetStageSettings, timer: StageTimer): CalibratedFrame {
   const frames = timer.stage(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
-  // calibrateScience reads no arc, though its parameter type names the whole CcdCalibration.
-  return timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd as CcdCalibration, settings.ccd));
+  return timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
 }

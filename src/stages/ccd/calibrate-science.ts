@@ -24,7 +24,7 @@ const UNUSABLE = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.zeroFlat 
  * makes the electrons and the variance wrong; the calibration's values are used, with a warning.
  * Values fixed in the manifest are not compared: they overrule every header.
  */
-function warnOnOtherReadout(frame: RawFrame, cal: CcdCalibration, settings: CcdSettings, log: DiagnosticLog): void {
+function warnOnOtherReadout(frame: RawFrame, cal: Pick<CcdCalibration, 'gain' | 'readNoiseE'>, settings: CcdSettings, log: DiagnosticLog): void {
   const checks = [
     { key: 'GAIN', fixed: settings.gain !== undefined, used: cal.gain, unit: 'e-/ADU' },
     { key: 'RDNOISE', fixed: settings.readNoise !== undefined, used: cal.readNoiseE, unit: 'e-' },
@@ -38,7 +38,8 @@ function warnOnOtherReadout(frame: RawFrame, cal: CcdCalibration, settings: CcdS
   }
 }
 
-export function calibrateScience(science: RawFrame[], cal: CcdCalibration, settings: CcdSettings): StageResult<CalibratedFrame> {
+/** `cal` without its calibrated arc: the science needs the masters and the detector only. */
+export function calibrateScience(science: RawFrame[], cal: Omit<CcdCalibration, 'arc'>, settings: CcdSettings): StageResult<CalibratedFrame> {
   const log = new DiagnosticLog('ccd');
   checkCcdSettings(settings);
   if (science.length === 0) throw new InputError('ccd.no-science', 'no science frames', { key: 'frames' }, { expected: 'one or more science exposures' });
