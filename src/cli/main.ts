@@ -14,7 +14,7 @@ import { registerDemo } from './commands/demo.js';
 import { registerInventory } from './commands/inventory.js';
 import { registerReport } from './commands/report.js';
 
-/** Each command module adds itself to the program; the action returns the exit code. */
+/** Each command module adds itself to the program; its action reports a non-zero exit code through setExit. */
 export type CommandRegistrar = (program: Command, io: CliIo, setExit: (code: number) => void) => void;
 
 const COMMANDS: CommandRegistrar[] = [registerInspect, registerSimulate, registerReduce, registerDemo, registerInventory, registerReport];
