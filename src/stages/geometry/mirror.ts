@@ -87,26 +87,36 @@ function lowerFrom(y: Float64Array, x: number, from: number): number {
   return k;
 }
 
-/** Chi-square of the fold about row c, comparing the active points with |y - c0| <= half. */
-export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, fixedVSys: number | undefined, scratch: Float64Array): FoldChiSquare {
-  const { y, v, e } = p;
-  let sw = 0;
-  let swx = 0;
-  let swxx = 0;
-  let n = 0;
+/**
+ * For every active point i with |y_i - c0| <= half whose mirror row 2c - y_i lies among the
+ * points: visit(i, value, variance) of the curve there (interpolate, without point i).
+ */
+function forEachMirror(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, scratch: Float64Array, visit: (i: number, mirrorV: number, mirrorVar: number) => void): void {
+  const { y } = p;
   let lo = lowerIndex(y, 2 * c - y[0]! - p.kernelRows);
   for (let i = 0; i < y.length; i++) {
     if (active[i] === 0 || Math.abs(y[i]! - c0) > half) continue;
     const m = 2 * c - y[i]!;
     lo = lowerFrom(y, m - p.kernelRows, lo);
-    if (!interpolate(p, active, i, m, lo, scratch)) continue;
-    const w = 1 / (e[i]! ** 2 + scratch[1]!);
-    const x = v[i]! + scratch[0]!;
+    if (interpolate(p, active, i, m, lo, scratch)) visit(i, scratch[0]!, scratch[1]!);
+  }
+}
+
+/** Chi-square of the fold about row c, comparing the active points with |y - c0| <= half. */
+export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, fixedVSys: number | undefined, scratch: Float64Array): FoldChiSquare {
+  const { v, e } = p;
+  let sw = 0;
+  let swx = 0;
+  let swxx = 0;
+  let n = 0;
+  forEachMirror(p, active, c, c0, half, scratch, (i, mirrorV, mirrorVar) => {
+    const w = 1 / (e[i]! ** 2 + mirrorVar);
+    const x = v[i]! + mirrorV;
     sw += w;
     swx += w * x;
     swxx += w * x * x;
     n++;
-  }
+  });
   if (n === 0) return { chi2: Infinity, vSys: NaN, n };
   // sum w (x - 2 vs)^2 expanded, so one pass suffices.
   const vSys = fixedVSys ?? swx / (2 * sw);
@@ -124,14 +134,9 @@ export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: n
 export function dropAsymmetricPoints(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, vSys: number, limit: number, scratch: Float64Array): number {
   const { y, v, e } = p;
   const z = new Float64Array(y.length).fill(NaN);
-  let lo = lowerIndex(y, 2 * c - y[0]! - p.kernelRows);
-  for (let i = 0; i < y.length; i++) {
-    if (active[i] === 0 || Math.abs(y[i]! - c0) > half) continue;
-    const m = 2 * c - y[i]!;
-    lo = lowerFrom(y, m - p.kernelRows, lo);
-    if (!interpolate(p, active, i, m, lo, scratch)) continue;
-    z[i] = (v[i]! + scratch[0]! - 2 * vSys) / Math.sqrt(e[i]! ** 2 + scratch[1]!);
-  }
+  forEachMirror(p, active, c, c0, half, scratch, (i, mirrorV, mirrorVar) => {
+    z[i] = (v[i]! + mirrorV - 2 * vSys) / Math.sqrt(e[i]! ** 2 + mirrorVar);
+  });
   const cut = limit * Math.max(1, madSigma(z));
   let dropped = 0;
   for (let i = 0; i < y.length; i++) {
