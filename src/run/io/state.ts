@@ -1,8 +1,9 @@
 /**
  * The run's memory between invocations, under `<output>/.whorl/`: for each target the cache key
- * of its last complete run and the summary entry it produced; for each setup the calibration
- * products (packed) with their key. A state file is written only after every product it lists,
- * so a killed run leaves the target without state and the next run redoes it.
+ * of its last complete run and the summary entry it produced; for each setup what its calibration
+ * needs besides its product files (packed, with its key; see run/pipeline/calibration-cache.ts).
+ * A state file is written only after every product it lists, so a killed run leaves the target
+ * without state and the next run redoes it.
  */
 import { existsSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';

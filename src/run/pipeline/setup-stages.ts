@@ -1,7 +1,7 @@
 /**
  * The calibrations of one setup, computed once and shared by its targets: bias, flat and arc
  * frames through the CCD stage, the arc through the wavelength solution; products written under
- * `calib/<setup>/`, and the whole result cached on disk by the setup's key.
+ * `calib/<setup>/`, and the result cached on disk by the setup's key (calibration-cache.ts).
  */
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
@@ -19,9 +19,9 @@ import type { CcdSettings } from '../../stages/ccd/settings.js';
 import { VERSION } from '../../version.js';
 import type { EventSink } from '../events.js';
 import { writeFileAtomic } from '../io/atomic.js';
-import { readCachedCalibration, writeCachedCalibration } from '../io/state.js';
 import { manifestRelative, type ResolvedRun, type ResolvedSetup } from '../manifest/resolve.js';
 import { describeFailure } from '../failure.js';
+import { BIAS_FILE, cacheCalibration, cachedCalibration, FLAT_FILE } from './calibration-cache.js';
 import { loadFrames } from './frames.js';
 import { arcSettingsFor, ccdSettingsFor } from './settings.js';
 import { StageTimer } from './timer.js';
@@ -57,13 +57,13 @@ export type SetupResult =
 /** Reuse the cached calibration of `key` (unless `force`) or compute and cache it; never throws. */
 export function calibrateSetupCached(setup: ResolvedSetup, run: ResolvedRun, key: string, force: boolean, emit: EventSink, now: () => number): SetupResult {
   if (!force) {
-    const cached = readCachedCalibration<SetupCalibration>(run.outputDir, setup.folder, key);
+    const cached = cachedCalibration(run.outputDir, setup.folder, key);
     if (cached && cached.products.every((p) => existsSync(join(run.outputDir, p)))) return { ok: true, calibration: cached };
   }
   const timer = new StageTimer({ setup: setup.name }, SETUP_STAGES.length, emit, now);
   try {
     const calibration = calibrateSetup(setup, run, timer);
-    return { ok: true, calibration, ms: timer.ms, caching: writeCachedCalibration(run.outputDir, setup.folder, key, calibration) };
+    return { ok: true, calibration, ms: timer.ms, caching: cacheCalibration(run.outputDir, setup.folder, key, calibration) };
   } catch (e) {
     const [code, reason] = describeFailure(e);
     return { ok: false, code, reason };
@@ -84,8 +84,8 @@ export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: St
   const dir = join('calib', setup.folder);
   const products = timer.step(SETUP_STAGES[3], () => {
     const files: [string, CalibrationFits][] = [
-      ['bias.fits', masterBiasFits(ccd, names(setup.bias), history)],
-      ['flat.fits', masterFlatFits(ccd, names(setup.flat), history)],
+      [BIAS_FILE, masterBiasFits(ccd, names(setup.bias), history)],
+      [FLAT_FILE, masterFlatFits(ccd, names(setup.flat), history)],
     ];
     const written = files.map(([name, fits]) => {
       writeFileAtomic(join(run.outputDir, dir, name), writeFitsByHdu(fits.hdus, { primaryHeader: fits.primaryHeader }));

@@ -1,0 +1,50 @@
+/**
+ * Images read back exactly as stored, for arrays whorl wrote itself and reads again (the
+ * calibration cache): 32-bit floats bit for bit, and unsigned 16-bit integers (BZERO 32768,
+ * FITS Standard 4.0 section 5.2.5) as a Uint16Array. readImage computes BZERO + BSCALE x stored
+ * in doubles instead, which turns -0 into +0 and may change NaN payloads.
+ */
+import { InputError } from '../errors.js';
+import { hduAt } from './image.js';
+import type { FitsFile } from './types.js';
+
+const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
+
+interface Stored<T> {
+  width: number;
+  height: number;
+  data: T;
+}
+
+/** The 2-D image at `index` with the BITPIX and BZERO it must have; the data bytes copied into `out`'s buffer. */
+function storedBytes<T extends Float32Array | Uint16Array>(file: FitsFile, index: number, bitpix: number, bzero: number, make: (n: number) => T): Stored<T> {
+  const hdu = hduAt(file, index);
+  const h = hdu.header;
+  const place = { file: file.source, hdu: index };
+  if (hdu.kind !== 'image' || h.getNumber('BITPIX') !== bitpix || h.getNumber('NAXIS') !== 2 || (h.getNumber('BZERO') ?? 0) !== bzero || (h.getNumber('BSCALE') ?? 1) !== 1) {
+    throw new InputError('fits.not-stored-as', 'image is not stored as expected', place, { expected: `a 2-D image, BITPIX ${bitpix}, BZERO ${bzero}, BSCALE 1`, actual: `${hdu.kind}, BITPIX ${h.getNumber('BITPIX')}, NAXIS ${h.getNumber('NAXIS')}` });
+  }
+  const width = h.getNumber('NAXIS1')!;
+  const height = h.getNumber('NAXIS2')!;
+  const data = make(width * height);
+  if (data.byteLength > hdu.dataLength) throw new InputError('fits.truncated', 'data unit is smaller than the image axes need', place, { expected: `${data.byteLength} bytes`, actual: `${hdu.dataLength} bytes` });
+  new Uint8Array(data.buffer).set(file.bytes.subarray(hdu.dataOffset, hdu.dataOffset + data.byteLength));
+  return { width, height, data };
+}
+
+/** A BITPIX -32 image without scaling, every bit pattern kept (-0, NaN payloads). */
+export function storedFloat32(file: FitsFile, index: number): Stored<Float32Array> {
+  const img = storedBytes(file, index, -32, 0, (n) => new Float32Array(n));
+  if (LITTLE_ENDIAN) Buffer.from(img.data.buffer).swap32();
+  return img;
+}
+
+/** A BITPIX 16, BZERO 32768 image as the unsigned values it stores. */
+export function storedUint16(file: FitsFile, index: number): Stored<Uint16Array> {
+  const img = storedBytes(file, index, 16, 32768, (n) => new Uint16Array(n));
+  if (LITTLE_ENDIAN) Buffer.from(img.data.buffer).swap16();
+  // stored = value - 32768 in two's complement: the same bits with the top one flipped
+  const d = img.data;
+  for (let i = 0; i < d.length; i++) d[i] = d[i]! ^ 0x8000;
+  return img;
+}
