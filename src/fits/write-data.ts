@@ -14,13 +14,14 @@ const INT_RANGE: Record<number, [number, number]> = { 8: [0, 255], 16: [-32768, 
 export function blankFor(spec: ImageHduSpec): number | undefined {
   if (spec.bitpix < 0) return undefined;
   const d = spec.data;
+  if (d instanceof Uint8Array || d instanceof Uint16Array || d instanceof Int16Array || d instanceof Uint32Array || d instanceof Int32Array) return undefined; // no NaN in integer arrays
   for (let i = 0; i < d.length; i++) if (d[i] !== d[i]) return INT_RANGE[spec.bitpix]![0];
   return undefined;
 }
 
 /** Raw frames: unscaled 16-bit values written byte by byte (faster than DataView in V8). */
-function encodeInt16(d: ArrayLike<number>, n: number, zero: number, out: Uint8Array, offset: number): void {
-  for (let i = 0, o = offset; i < n; i++, o += 2) {
+function encodeInt16(d: ArrayLike<number>, first: number, n: number, zero: number, out: Uint8Array, offset: number): void {
+  for (let i = first, o = offset; i < first + n; i++, o += 2) {
     let s = Math.round(d[i]! - zero);
     if (s < -32768) s = -32768;
     else if (s > 32767) s = 32767;
@@ -29,33 +30,43 @@ function encodeInt16(d: ArrayLike<number>, n: number, zero: number, out: Uint8Ar
   }
 }
 
-/** Write the image's stored values at out[offset..). */
-export function encodeImage(spec: ImageHduSpec, out: Uint8Array, offset: number, blank: number | undefined): void {
-  const n = spec.width * spec.height;
+/**
+ * Write the stored values of pixels [first, first + count) of the image (default: all of them) at
+ * out[offset..).
+ */
+export function encodeImage(spec: ImageHduSpec, out: Uint8Array, offset: number, blank: number | undefined, first = 0, count = spec.width * spec.height): void {
+  const n = count;
   const d = spec.data;
-  const view = new DataView(out.buffer, out.byteOffset + offset, n * (Math.abs(spec.bitpix) / 8));
-  if (spec.bitpix < 0 && LITTLE_ENDIAN && (out.byteOffset + offset) % 8 === 0) {
-    // Floats: copied (or converted, rounding as setFloat32 does) natively, then byte-swapped natively.
-    const bytes = Buffer.from(out.buffer, out.byteOffset + offset, n * (Math.abs(spec.bitpix) / 8));
+  const bytesPerValue = Math.abs(spec.bitpix) / 8;
+  if (LITTLE_ENDIAN && (out.byteOffset + offset) % 8 === 0 && (spec.bitpix < 0 || isUnsigned16(spec, d, blank))) {
+    // Copied (or converted, rounding as setFloat32 does) natively, then byte-swapped natively.
+    const bytes = Buffer.from(out.buffer, out.byteOffset + offset, n * bytesPerValue);
+    const part = ArrayBuffer.isView(d) ? (d as Float32Array).subarray(first, first + n) : Array.prototype.slice.call(d, first, first + n);
     if (spec.bitpix === -32) {
-      new Float32Array(out.buffer, out.byteOffset + offset, n).set(d); // d holds n values (checked by the writer)
+      new Float32Array(out.buffer, out.byteOffset + offset, n).set(part); // d holds the values (checked by the writer)
       bytes.swap32();
-    } else {
-      new Float64Array(out.buffer, out.byteOffset + offset, n).set(d);
+    } else if (spec.bitpix === -64) {
+      new Float64Array(out.buffer, out.byteOffset + offset, n).set(part);
       bytes.swap64();
+    } else {
+      // stored = value - 32768 in two's complement: the value's bits with the top one flipped
+      const u = new Uint16Array(out.buffer, out.byteOffset + offset, n);
+      for (let i = 0; i < n; i++) u[i] = part[i]! ^ 0x8000;
+      bytes.swap16();
     }
     return;
   }
+  const view = new DataView(out.buffer, out.byteOffset + offset, n * bytesPerValue);
   if (spec.bitpix === -32) {
-    for (let i = 0; i < n; i++) view.setFloat32(4 * i, d[i]!);
+    for (let i = 0; i < n; i++) view.setFloat32(4 * i, d[first + i]!);
     return;
   }
   if (spec.bitpix === 16 && blank === undefined && (spec.bscale ?? 1) === 1) {
-    encodeInt16(d, n, spec.bzero ?? 0, out, offset);
+    encodeInt16(d, first, n, spec.bzero ?? 0, out, offset);
     return;
   }
   if (spec.bitpix === -64) {
-    for (let i = 0; i < n; i++) view.setFloat64(8 * i, d[i]!);
+    for (let i = 0; i < n; i++) view.setFloat64(8 * i, d[first + i]!);
     return;
   }
   const zero = spec.bzero ?? 0;
@@ -64,7 +75,7 @@ export function encodeImage(spec: ImageHduSpec, out: Uint8Array, offset: number,
   const lo = blank === undefined ? min : min + 1;
   const b = blank ?? 0;
   for (let i = 0; i < n; i++) {
-    const v = d[i]!;
+    const v = d[first + i]!;
     let s = Math.round((v - zero) / scale);
     if (v !== v) s = b;
     else if (s < lo) s = lo;
@@ -73,6 +84,11 @@ export function encodeImage(spec: ImageHduSpec, out: Uint8Array, offset: number,
     else if (spec.bitpix === 32) view.setInt32(4 * i, s);
     else view.setUint8(i, s);
   }
+}
+
+/** Unsigned 16-bit masks (Uint16Array, BZERO 32768, BSCALE 1): every value is stored exactly, no rounding or clipping. */
+function isUnsigned16(spec: ImageHduSpec, d: ArrayLike<number>, blank: number | undefined): boolean {
+  return spec.bitpix === 16 && d instanceof Uint16Array && spec.bzero === 32768 && (spec.bscale ?? 1) === 1 && blank === undefined;
 }
 
 export interface TableColumnLayout {

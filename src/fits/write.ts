@@ -1,7 +1,8 @@
 /**
  * Writing FITS files (FITS Standard 4.0): an empty primary HDU or an image in it, then IMAGE and
  * BINTABLE extensions, each with DATASUM and CHECKSUM (checksum convention). The output is sized
- * first and filled in place: one allocation of the whole file, or of each HDU (writeFitsByHdu).
+ * first, then written in pieces at known positions (writeFitsPieces): image data through one
+ * reused buffer, so a file of hundreds of MB needs neither that much memory nor fresh pages.
  */
 import { InputError } from '../errors.js';
 import { BLOCK_BYTES } from './card-parse.js';
@@ -18,7 +19,10 @@ const RESERVED =
 interface PlannedHdu {
   cards: Card[];
   dataBytes: number;
-  encode(out: Uint8Array, offset: number): void;
+  /** Image data, encoded piece by piece. */
+  image?: { spec: ImageHduSpec; blank: number | undefined };
+  /** Table data, encoded whole. */
+  encode?(out: Uint8Array, offset: number): void;
 }
 
 function userCards(headers: (Header | undefined)[], skipExtname: boolean): Card[] {
@@ -42,7 +46,7 @@ function planImage(spec: ImageHduSpec, primary: boolean, extensions: boolean, ex
   const blank = blankFor(spec);
   if (blank !== undefined) cards.push({ key: 'BLANK', value: blank, comment: 'stored value of NaN pixels' });
   cards.push(...userCards([...extra, spec.header], spec.name !== undefined));
-  return { cards, dataBytes: spec.width * spec.height * (Math.abs(spec.bitpix) / 8), encode: (out, offset) => encodeImage(spec, out, offset, blank) };
+  return { cards, dataBytes: spec.width * spec.height * (Math.abs(spec.bitpix) / 8), image: { spec, blank } };
 }
 
 function planTable(spec: TableHduSpec): PlannedHdu {
@@ -79,7 +83,7 @@ function plan(hdus: WriteHdu[], options: WriteOptions): PlannedHdu[] {
     const cards: Card[] = [{ key: 'SIMPLE', value: true }, { key: 'BITPIX', value: 8 }, { key: 'NAXIS', value: 0 }];
     if (hdus.length > 0) cards.push({ key: 'EXTEND', value: true });
     cards.push(...userCards([options.primaryHeader], false));
-    planned.push({ cards, dataBytes: 0, encode: () => undefined });
+    planned.push({ cards, dataBytes: 0 });
   }
   for (const spec of rest) planned.push(spec.kind === 'image' ? planImage(spec, false, false, []) : planTable(spec));
   return planned;
@@ -101,46 +105,80 @@ function sizedHdus(hdus: WriteHdu[], options: WriteOptions): SizedHdu[] {
   return planned.map((hdu) => ({ hdu, headerBytes: formatHeader(hdu.cards).length, paddedData: Math.ceil(hdu.dataBytes / BLOCK_BYTES) * BLOCK_BYTES }));
 }
 
-/** Fill header and data of one HDU at `offset` of `out`; returns the offset after it. */
-function fillHdu(s: SizedHdu, checksum: boolean, out: Uint8Array, offset: number): number {
+/**
+ * Bytes of image data encoded at once: whole values of every BITPIX (a multiple of 8) and of
+ * 2880-byte blocks, about 4 MB, so the reused buffer stays small.
+ */
+const PIECE_BYTES = BLOCK_BYTES * 8 * 182;
+let pieceBuffer: Uint8Array | undefined;
+
+/** Where writeFitsPieces sends its bytes: `bytes` belong at `position` of the file and are only valid during the call. */
+export type PieceSink = (bytes: Uint8Array, position: number) => void;
+
+/** Data then header of one HDU starting at `offset`; returns the offset after it. */
+function writeHdu(s: SizedHdu, checksum: boolean, offset: number, put: PieceSink): number {
   const p = s.hdu;
   const dataOffset = offset + s.headerBytes;
-  p.encode(out, dataOffset);
   const end = dataOffset + s.paddedData;
+  let dataSum = 0;
+  const image = p.image;
+  if (image && s.paddedData > 0) {
+    // The padding (zeros, under 2880 bytes) goes out with the last piece.
+    const buffer = (pieceBuffer ??= new Uint8Array(PIECE_BYTES + BLOCK_BYTES));
+    const bytesPerValue = Math.abs(image.spec.bitpix) / 8;
+    const n = image.spec.width * image.spec.height;
+    const perPiece = PIECE_BYTES / bytesPerValue;
+    for (let first = 0; first < n; first += perPiece) {
+      const count = Math.min(perPiece, n - first);
+      encodeImage(image.spec, buffer, 0, image.blank, first, count);
+      const at = dataOffset + first * bytesPerValue;
+      let length = count * bytesPerValue;
+      if (first + count === n) {
+        buffer.fill(0, length, end - at);
+        length = end - at;
+      }
+      if (checksum) dataSum = onesComplementSum(buffer, 0, length, dataSum);
+      put(buffer.subarray(0, length), at);
+    }
+  } else if (p.encode && s.paddedData > 0) {
+    const data = new Uint8Array(s.paddedData);
+    p.encode(data, 0);
+    if (checksum) dataSum = onesComplementSum(data, 0, data.length);
+    put(data, dataOffset);
+  }
+  const header = new Uint8Array(s.headerBytes);
   if (checksum) {
-    const dataSum = onesComplementSum(out, dataOffset, end);
     p.cards[p.cards.length - 1]!.value = String(dataSum);
     const text = formatHeader(p.cards);
-    putAscii(out, offset, text);
-    const total = addSums(onesComplementSum(out, offset, dataOffset), dataSum);
-    putAscii(out, offset + text.indexOf("CHECKSUM= '") + 11, encodeChecksum(complement(total)));
+    putAscii(header, 0, text);
+    const total = addSums(onesComplementSum(header, 0, header.length), dataSum);
+    putAscii(header, text.indexOf("CHECKSUM= '") + 11, encodeChecksum(complement(total)));
   } else {
-    putAscii(out, offset, formatHeader(p.cards));
+    putAscii(header, 0, formatHeader(p.cards));
   }
+  put(header, offset);
   return end;
 }
 
-/** Serialise HDUs to the bytes of a FITS file. */
-export function writeFits(hdus: WriteHdu[], options: WriteOptions = {}): Uint8Array {
-  const checksum = options.checksum ?? true;
-  const sized = sizedHdus(hdus, options);
-  const out = new Uint8Array(sized.reduce((n, s) => n + s.headerBytes + s.paddedData, 0));
-  let offset = 0;
-  for (const s of sized) offset = fillHdu(s, checksum, out, offset);
-  return out;
+/**
+ * Serialise HDUs through `put`, each HDU's data before its header (whose CHECKSUM needs the data's
+ * sum); together the pieces cover the file once. The specs are checked before the first piece.
+ * Returns the file's length.
+ */
+export function writeFitsPieces(hdus: WriteHdu[], options: WriteOptions, put: PieceSink): number {
+  return writeSized(sizedHdus(hdus, options), options.checksum ?? true, put);
 }
 
-/**
- * The same bytes as writeFits, one HDU at a time (header and data of each in its own array), so
- * that a large file can be written without holding all of it: each array can be dropped once
- * written. The specs are checked before the first HDU is yielded.
- */
-export function* writeFitsByHdu(hdus: WriteHdu[], options: WriteOptions = {}): Generator<Uint8Array, void, undefined> {
-  const checksum = options.checksum ?? true;
+function writeSized(sized: SizedHdu[], checksum: boolean, put: PieceSink): number {
+  let offset = 0;
+  for (const s of sized) offset = writeHdu(s, checksum, offset, put);
+  return offset;
+}
+
+/** Serialise HDUs to the bytes of a FITS file, held whole (small files; see writeFitsPieces). */
+export function writeFits(hdus: WriteHdu[], options: WriteOptions = {}): Uint8Array {
   const sized = sizedHdus(hdus, options);
-  for (const s of sized) {
-    const out = new Uint8Array(s.headerBytes + s.paddedData);
-    fillHdu(s, checksum, out, 0);
-    yield out;
-  }
+  const out = new Uint8Array(sized.reduce((n, s) => n + s.headerBytes + s.paddedData, 0));
+  writeSized(sized, options.checksum ?? true, (bytes, position) => out.set(bytes, position));
+  return out;
 }

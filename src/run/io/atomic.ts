@@ -26,19 +26,23 @@ function temporaryName(path: string): string {
   return join(dir, `.${basename(path)}.partial-${HOST}-${process.pid}-${counter++}`);
 }
 
+/** Writes `bytes` at byte `position` of the file being written. */
+export type PositionedWrite = (bytes: Uint8Array, position: number) => void;
+
 /**
- * Write `data` to `path` atomically (creating the folder). `data` may come in chunks (e.g. one
- * per FITS HDU), each written as it comes, so a large file need not be held whole.
+ * Write `data` to `path` atomically (creating the folder). `data` may be a function that writes
+ * the file in pieces at their positions (e.g. writeFitsPieces), so a large file need not be held
+ * whole; the pieces must cover the file.
  */
-export function writeFileAtomic(path: string, data: string | Uint8Array | Iterable<Uint8Array>): void {
+export function writeFileAtomic(path: string, data: string | Uint8Array | ((write: PositionedWrite) => void)): void {
   const tmp = temporaryName(path);
   const fd = openSync(tmp, 'w');
+  const write: PositionedWrite = (bytes, position) => {
+    for (let off = 0; off < bytes.length; ) off += writeSync(fd, bytes, off, bytes.length - off, position + off);
+  };
   try {
-    const chunks = typeof data === 'string' ? [Buffer.from(data, 'utf8')] : data instanceof Uint8Array ? [data] : data;
-    for (const bytes of chunks) {
-      let off = 0;
-      while (off < bytes.length) off += writeSync(fd, bytes, off, bytes.length - off);
-    }
+    if (typeof data === 'function') data(write);
+    else write(typeof data === 'string' ? Buffer.from(data, 'utf8') : data, 0);
   } catch (e) {
     closeSync(fd);
     rmSync(tmp, { force: true });

@@ -6,7 +6,7 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Diagnostic } from '../../diagnostics.js';
-import { writeFitsByHdu } from '../../fits/write.js';
+import { writeFitsPieces } from '../../fits/write.js';
 import { loadLampLines, readLineListFile, type LampLine } from '../../physics/catalogues.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
 import { formatArcLinesCsv, formatSolutionJson } from '../../products/writers/wavelength.js';
@@ -88,7 +88,7 @@ export function calibrateSetup(setup: ResolvedSetup, run: ResolvedRun, timer: St
       [FLAT_FILE, masterFlatFits(ccd, names(setup.flat), history)],
     ];
     const written = files.map(([name, fits]) => {
-      writeFileAtomic(join(run.outputDir, dir, name), writeFitsByHdu(fits.hdus, { primaryHeader: fits.primaryHeader }));
+      writeFileAtomic(join(run.outputDir, dir, name), (write) => writeFitsPieces(fits.hdus, { primaryHeader: fits.primaryHeader }, write));
       return join(dir, name);
     });
     const texts: [string, string][] = [

@@ -4,7 +4,7 @@
  */
 import { join } from 'node:path';
 import type { Diagnostic } from '../../diagnostics.js';
-import { writeFits, writeFitsByHdu } from '../../fits/write.js';
+import { writeFits, writeFitsPieces } from '../../fits/write.js';
 import { Header } from '../../fits/header.js';
 import { curveCsv, curveJson, curveTableHdu } from '../../products/writers/curve.js';
 import { lightCsv } from '../../products/writers/light.js';
@@ -27,7 +27,7 @@ import type { TargetProducts } from './target-stages.js';
  */
 export function writeTargetProducts(job: TargetJob, cal: SetupCalibration, p: TargetProducts, diagnostics: Diagnostic[], provenance: Record<string, unknown>): string[] {
   const files: string[] = [];
-  const put = (name: string, data: string | Uint8Array | Iterable<Uint8Array>) => {
+  const put = (name: string, data: Parameters<typeof writeFileAtomic>[1]) => {
     const rel = join(job.target.folder, name);
     writeFileAtomic(join(job.outputDir, rel), data);
     files.push(rel);
@@ -40,8 +40,8 @@ export function writeTargetProducts(job: TargetJob, cal: SetupCalibration, p: Ta
   ];
   const spectrum = spectrumFits(p.skySubtracted, p.solution, history);
   spectrum.primaryHeader.set('SKYSUB', true, 'sky model subtracted from SCI');
-  // HDU by HDU: the whole file (~150 MB at full size) is never held at once.
-  put('spectrum.fits', writeFitsByHdu(spectrum.hdus, { primaryHeader: spectrum.primaryHeader }));
+  // In pieces: the whole file (~150 MB at full size) is never held at once.
+  put('spectrum.fits', (write) => writeFitsPieces(spectrum.hdus, { primaryHeader: spectrum.primaryHeader }, write));
   const rows = rowMapping(p.skySubtracted.orientation, p.skySubtracted.width);
   put('rows.csv', rowsCsv(p.lines, p.velocities, p.curve, rows));
   put('rows.fits', writeFits([rowsTableHdu(p.lines, p.velocities, p.curve, rows)], { primaryHeader: historyHeader(history) }));

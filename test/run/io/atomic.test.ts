@@ -16,16 +16,20 @@ describe('writeFileAtomic', () => {
     expect(readdirSync(join(dir, 'a'))).toEqual(['b.txt']);
   });
 
-  it('writes chunks in order, and a failing chunk source leaves the old file and no temporary file', () => {
+  it('writes pieces at their positions, and a failing writer leaves the old file and no temporary file', () => {
     const dir = mkdtempSync(join(tmpdir(), 'whorl-atomic-'));
     const path = join(dir, 'c.bin');
-    writeFileAtomic(path, [new Uint8Array([1, 2]), new Uint8Array(0), new Uint8Array([3])]);
+    writeFileAtomic(path, (write) => {
+      write(new Uint8Array([3]), 2);
+      write(new Uint8Array(0), 1);
+      write(new Uint8Array([1, 2]), 0);
+    });
     expect([...readFileSync(path)]).toEqual([1, 2, 3]);
-    function* failing(): Generator<Uint8Array> {
-      yield new Uint8Array([9, 9]);
+    const failing = (write: (bytes: Uint8Array, position: number) => void) => {
+      write(new Uint8Array([9, 9]), 0);
       throw new Error('encoder failed');
-    }
-    expect(() => writeFileAtomic(path, failing())).toThrow('encoder failed');
+    };
+    expect(() => writeFileAtomic(path, failing)).toThrow('encoder failed');
     expect([...readFileSync(path)]).toEqual([1, 2, 3]);
     expect(readdirSync(dir)).toEqual(['c.bin']);
   });
