@@ -8,13 +8,24 @@ import { Header, type Card } from '../../fits/header.js';
 
 const TAG = '__whorlHeaderCards';
 
+/** Headers tagged; the objects and arrays above one are copied, everything else is shared, not copied (most of a product holds no Header). */
 export function pack<T>(value: T): unknown {
   if (value instanceof Header) return { [TAG]: value.cards };
-  if (Array.isArray(value)) return value.map(pack);
+  if (Array.isArray(value)) {
+    let out: unknown[] | undefined;
+    value.forEach((v, i) => {
+      const p = pack(v);
+      if (p !== v) (out ??= [...value])[i] = p;
+    });
+    return out ?? value;
+  }
   if (value && typeof value === 'object' && !ArrayBuffer.isView(value)) {
-    const out: Record<string, unknown> = {};
-    for (const [k, v] of Object.entries(value)) out[k] = pack(v);
-    return out;
+    let out: Record<string, unknown> | undefined;
+    for (const [k, v] of Object.entries(value)) {
+      const p = pack(v);
+      if (p !== v) (out ??= { ...(value as Record<string, unknown>) })[k] = p;
+    }
+    return out ?? value;
   }
   return value;
 }
