@@ -9,7 +9,8 @@ export function fixed(x: number, digits: number): string {
   if (Number.isNaN(x)) return 'nan';
   if (!Number.isFinite(x)) return x > 0 ? 'inf' : '-inf';
   const s = x.toFixed(digits);
-  return /^-0\.?0*$/.test(s) ? s.slice(1) : s;
+  // '-0.00' (a small negative rounded to zero) loses its sign; Number() only for the negatives
+  return s.charCodeAt(0) === 45 && Number(s) === 0 ? s.slice(1) : s;
 }
 
 /** x in exponent form with `digits` decimals of the mantissa (e.g. 9.300e+10). */
