@@ -3,7 +3,7 @@ import { InputError } from '../errors.js';
 import type { RawFrame } from '../products/frame.js';
 import { Header } from './header.js';
 import { readImage } from './image.js';
-import { readFitsFile } from './read-file.js';
+import { readFitsFileTransient } from './read-file.js';
 import type { FitsFile, Hdu } from './types.js';
 
 const STRUCTURAL = /^(SIMPLE|XTENSION|BITPIX|NAXIS\d*|EXTEND|PCOUNT|GCOUNT|GROUPS|BZERO|BSCALE|BLANK|CHECKSUM|DATASUM|EXTNAME|EXTVER|INHERIT|END)$/;
@@ -39,7 +39,7 @@ export function inheritedHeader(file: FitsFile, hdu: Hdu): Header {
  * card value) are appended to `warnings` when given, so the caller can turn them into diagnostics.
  */
 export function loadRawFrame(path: string, warnings?: string[]): RawFrame {
-  const file = readFitsFile(path);
+  const file = readFitsFileTransient(path);
   warnings?.push(...file.warnings);
   const hdu = file.hdus.find(isFrame);
   if (!hdu) {

@@ -18,6 +18,21 @@ describe('loadRawFrame', () => {
     expect(f.header.getString('BIASSEC')).toBe('[65:72,1:40]');
   });
 
+  it('keeps nothing of the read buffer it reuses: a frame is unchanged after later, larger and smaller, frames are read', () => {
+    const write = (name: string, w: number, h: number, value: number, object: string) => {
+      const path = join(tmp, name);
+      writeFileSync(path, writeFits([{ kind: 'image', bitpix: 16, bzero: 32768, width: w, height: h, data: new Array(w * h).fill(value), header: new Header().set('OBJECT', object) }], { imageInPrimary: true }));
+      return path;
+    };
+    const first = loadRawFrame(write('first.fits', 60, 50, 1000, 'first'));
+    loadRawFrame(write('larger.fits', 300, 200, 2000, 'larger'));
+    const smaller = loadRawFrame(write('smaller.fits', 10, 8, 3000, 'smaller'));
+    expect(new Set(first.data)).toEqual(new Set([1000]));
+    expect(first.header.getString('OBJECT')).toBe('first');
+    expect(new Set(smaller.data)).toEqual(new Set([3000]));
+    expect(smaller.header.getString('OBJECT')).toBe('smaller');
+  });
+
   it('finds the image inside an fpack file (HDU 1) with the same pixels and cards', () => {
     const plain = loadRawFrame(join(DIR, 'raw_frame.fits'));
     const packed = loadRawFrame(join(DIR, 'raw_frame.fits.fz'));
