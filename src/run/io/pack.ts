@@ -20,10 +20,12 @@ export function pack<T>(value: T): unknown {
     return out ?? value;
   }
   if (value && typeof value === 'object' && !ArrayBuffer.isView(value)) {
+    const o = value as Record<string, unknown>;
     let out: Record<string, unknown> | undefined;
-    for (const [k, v] of Object.entries(value)) {
+    for (const k of Object.keys(o)) {
+      const v = o[k];
       const p = pack(v);
-      if (p !== v) (out ??= { ...(value as Record<string, unknown>) })[k] = p;
+      if (p !== v) (out ??= { ...o })[k] = p;
     }
     return out ?? value;
   }
