@@ -72,7 +72,8 @@ function restore(outputDir: string, cal: SetupCalibration): SetupCalibration {
   const bias = readFitsFile(join(outputDir, productPath(cal, BIAS_FILE)), { checksum: 'error' });
   const flat = readFitsFile(join(outputDir, productPath(cal, FLAT_FILE)), { checksum: 'error' });
   const internal = <T extends Float32Array | Uint16Array>(img: { width: number; height: number; data: T }): T => {
-    const out = toInternal(img.data, img.width, img.height, orientation);
+    // The stored arrays are already copies: reordered only when the orientation is not the identity.
+    const out = orientation.transpose || orientation.flipX ? toInternal(img.data, img.width, img.height, orientation) : img;
     if (out.width !== width || out.height !== height) throw new Error(`calibration product is ${out.width} x ${out.height}, the cache says ${width} x ${height}`);
     return out.data;
   };
