@@ -15,16 +15,17 @@ export function onesComplementSum(bytes: Uint8Array, start: number, end: number,
   let i = start;
   if (LITTLE_ENDIAN && whole > start && (bytes.byteOffset + start) % 4 === 0) {
     // Whole words at once: with w = b0 | b1 << 8 | b2 << 16 | b3 << 24 read natively, the masks
-    // put b0 and b2 (b1 and b3) in separate 16-bit lanes; 256 words cannot overflow a lane.
-    const words = new Uint32Array(bytes.buffer, bytes.byteOffset + start, (whole - start) >> 2);
-    for (let w0 = 0; w0 < words.length; w0 += 256) {
-      const w1 = Math.min(words.length, w0 + 256);
+    // put b0 and b2 (b1 and b3) in separate 16-bit lanes. 128 words cannot overflow a lane, and
+    // keep each sum below 2^31, so the loop stays in int32 arithmetic (faster than 256 in V8).
+    const words = new Int32Array(bytes.buffer, bytes.byteOffset + start, (whole - start) >> 2);
+    for (let w0 = 0; w0 < words.length; w0 += 128) {
+      const w1 = Math.min(words.length, w0 + 128);
       let evenBytes = 0;
       let oddBytes = 0;
       for (let k = w0; k < w1; k++) {
         const w = words[k]!;
         evenBytes += w & 0x00ff00ff;
-        oddBytes += (w >>> 8) & 0x00ff00ff;
+        oddBytes += (w >> 8) & 0x00ff00ff; // the mask drops the sign bits >> brings in
       }
       hi += (evenBytes & 0xffff) * 256 + (oddBytes & 0xffff);
       lo += (evenBytes >>> 16) * 256 + (oddBytes >>> 16);
