@@ -112,7 +112,10 @@ function sizedHdus(hdus: WriteHdu[], options: WriteOptions): SizedHdu[] {
 const PIECE_BYTES = BLOCK_BYTES * 8 * 182;
 let pieceBuffer: Uint8Array | undefined;
 
-/** Where writeFitsPieces sends its bytes: `bytes` belong at `position` of the file and are only valid during the call. */
+/**
+ * Where writeFitsPieces sends its bytes: `bytes` belong at `position` of the file and are only
+ * valid during the call (the buffer is reused), so a sink must not write another FITS file itself.
+ */
 export type PieceSink = (bytes: Uint8Array, position: number) => void;
 
 /** Data then header of one HDU starting at `offset`; returns the offset after it. */
