@@ -71,33 +71,83 @@ function keepsAll(low: number, high: number, nSigma: number, noise: { constant: 
   return (high - low) * (1 + 1e-9) + 1e-12 * (Math.abs(low) + Math.abs(high)) <= band;
 }
 
+/** Pixels taken per pass of smallStack (its list of pixels for the sorted path stays small). */
+const CHUNK = 4096;
+
 /**
  * Up to QUICK_MAX frames, the quick test written out (several times faster than a loop over
  * them): the last frame stands in for the missing ones, which changes no minimum or maximum.
  * The quick mean is summed in stack order, not sorted order: the same, since float32 values within
  * 2^20 of each other add exactly in a double; otherwise only a double's last bit can differ.
+ * Noise makes the test's outcome unpredictable, so nothing branches on it: each chunk of pixels
+ * gets the quick mean everywhere and a list of the pixels that fail, which the sorted path then
+ * overwrites.
  */
 function smallStack(stack: readonly Float32Array[], options: StackClipOptions, noise: { constant: number; perSignal: number }, out: Float32Array, v: Float64Array, kept?: Uint8Array): void {
   const n = stack.length;
   const [s0, s1, s2, s3, s4] = Array.from({ length: QUICK_MAX }, (_, i) => stack[Math.min(i, n - 1)]!);
-  for (let p = 0; p < out.length; p++) {
-    const a = s0![p]!;
-    const b = s1![p]!;
-    const c = s2![p]!;
-    const d = s3![p]!;
-    const e = s4![p]!;
-    let sum = 0;
-    sum += a;
-    if (n > 1) sum += b;
-    if (n > 2) sum += c;
-    if (n > 3) sum += d;
-    if (n > 4) sum += e;
-    // A NaN sum: a NaN value (the sorted path skips it) or opposite infinities (which fail the test).
-    if (sum === sum && keepsAll(Math.min(a, b, c, d, e), Math.max(a, b, c, d, e), options.nSigma, noise)) {
+  const failed = new Int32Array(CHUNK);
+  for (let p0 = 0; p0 < out.length; p0 += CHUNK) {
+    const p1 = Math.min(out.length, p0 + CHUNK);
+    let count = 0;
+    for (let p = p0; p < p1; p++) {
+      const a = s0![p]!;
+      const b = s1![p]!;
+      const c = s2![p]!;
+      const d = s3![p]!;
+      const e = s4![p]!;
+      let sum = 0;
+      sum += a;
+      if (n > 1) sum += b;
+      if (n > 2) sum += c;
+      if (n > 3) sum += d;
+      if (n > 4) sum += e;
+      let low: number;
+      let high: number;
+      if (inWindow(a) & inWindow(b) & inWindow(c) & (n > 3 ? inWindow(d) & inWindow(e) : 1)) {
+        // Minimum and maximum by arithmetic, without the unpredictable branches of Math.min and
+        // Math.max: in the window every difference t of two values is exact, so
+        // m + (t - |t|) / 2 = min(m, m + t) and m + (t + |t|) / 2 = max(m, m + t) exactly (up to
+        // the sign of a zero, which no decision of keepsAll depends on).
+        let t = b - a;
+        low = a + 0.5 * (t - Math.abs(t));
+        high = a + 0.5 * (t + Math.abs(t));
+        t = c - low;
+        low += 0.5 * (t - Math.abs(t));
+        t = c - high;
+        high += 0.5 * (t + Math.abs(t));
+        if (n > 3) {
+          t = d - low;
+          low += 0.5 * (t - Math.abs(t));
+          t = d - high;
+          high += 0.5 * (t + Math.abs(t));
+          t = e - low;
+          low += 0.5 * (t - Math.abs(t));
+          t = e - high;
+          high += 0.5 * (t + Math.abs(t));
+        }
+      } else {
+        low = Math.min(a, b, c, d, e);
+        high = Math.max(a, b, c, d, e);
+      }
       out[p] = sum / n;
       if (kept) kept[p] = n;
-    } else sortedClip(stack, p, v, options, out, kept);
+      // A NaN sum: a NaN value (the sorted path skips it) or opposite infinities (which fail the test).
+      failed[count] = p;
+      count += +!(sum === sum && keepsAll(low, high, options.nSigma, noise));
+    }
+    for (let j = 0; j < count; j++) sortedClip(stack, failed[j]!, v, options, out, kept);
   }
+}
+
+/** Float32 values whose differences are all exact in a double: 0 and 2^-8 <= |x| < 2^20 (multiples of 2^-31 below 2^20 differ by at most 52 bits). */
+const WINDOW_LOW = 2 ** -8;
+const WINDOW_HIGH = 2 ** 20;
+
+/** 1 when x (a float32 value) is in the window, else 0 (NaN and infinities included); no branch. */
+function inWindow(x: number): number {
+  const m = Math.abs(x);
+  return +(m < WINDOW_HIGH) & (+(m >= WINDOW_LOW) | +(x === 0));
 }
 
 /** Pixel p by the full rule: its values sorted, then the clipping rounds. */
