@@ -17,6 +17,9 @@ export interface StackClipOptions {
   noise?: { constant: number; perSignal: number };
 }
 
+/** Most frames the written-out quick test takes (the usual 3 to 5 bias or flat frames). */
+const QUICK_MAX = 5;
+
 /**
  * Fill `out` with the clipped mean; `kept` (optional) receives the number of values kept per pixel.
  * Each pixel's values are sorted once (insertion sort: stacks are small): both bounds are applied
@@ -30,15 +33,14 @@ export function clippedMeanStack(stack: readonly Float32Array[], out: Float32Arr
   for (const image of stack) if (image.length !== size) throw new RangeError(`clippedMeanStack: image of ${image.length} pixels in a stack of ${size}`);
   if (n > 255) throw new RangeError('clippedMeanStack: at most 255 images');
   const v = new Float64Array(n);
-  const { nSigma, maxIterations, noise } = options;
-  const quick = noise !== undefined && noise.perSignal >= 0;
-  for (let p = 0; p < size; p++) {
-    if (quick) {
-      // Most pixels: when max - min fits inside the band of the smallest possible scale (the
-      // centre is >= min and the scale grows with it), the first round keeps every value and
-      // the result is their mean; sorting (branchy, slow on noise) is only needed otherwise.
-      // Summed in stack order, not sorted order: the same, since float32 values within 2^20 of
-      // each other add exactly in a double; otherwise only a double's last bit can differ.
+  const { noise } = options;
+  if (noise === undefined || !(noise.perSignal >= 0)) {
+    for (let p = 0; p < size; p++) sortedClip(stack, p, v, options, out, kept);
+  } else if (n <= QUICK_MAX) {
+    smallStack(stack, options, noise, out, v, kept);
+  } else {
+    for (let p = 0; p < size; p++) {
+      // The quick test of smallStack, with a loop over the frames.
       let low = Infinity;
       let high = -Infinity;
       let sum = 0;
@@ -50,56 +52,147 @@ export function clippedMeanStack(stack: readonly Float32Array[], out: Float32Arr
         if (x < low) low = x;
         if (x > high) high = x;
       }
-      if (i === n) {
-        const band = nSigma * Math.sqrt(noise.constant + noise.perSignal * (low > 0 ? low : 0));
-        // A margin far above rounding keeps the test on the safe side of the exact rule.
-        if ((high - low) * (1 + 1e-9) + 1e-12 * (Math.abs(low) + Math.abs(high)) <= band) {
-          out[p] = sum / n;
-          if (kept) kept[p] = n;
-          continue;
-        }
-      }
+      if (i === n && keepsAll(low, high, options.nSigma, noise)) {
+        out[p] = sum / n;
+        if (kept) kept[p] = n;
+      } else sortedClip(stack, p, v, options, out, kept);
     }
-    let m = 0;
-    for (let i = 0; i < n; i++) {
-      const x = stack[i]![p]!;
-      if (x !== x) continue;
-      let j = m - 1;
-      while (j >= 0 && v[j]! > x) {
-        v[j + 1] = v[j]!;
-        j--;
-      }
-      v[j + 1] = x;
-      m++;
-    }
-    let lo = 0;
-    let hi = m;
-    for (let iter = 0; iter < maxIterations && hi > lo; iter++) {
-      const count = hi - lo;
-      const half = lo + (count >> 1);
-      const centre = count % 2 === 1 ? v[half]! : 0.5 * (v[half - 1]! + v[half]!);
-      let scale: number;
-      if (noise) {
-        scale = Math.sqrt(noise.constant + noise.perSignal * (centre > 0 ? centre : 0));
-      } else {
-        let mean = 0;
-        for (let i = lo; i < hi; i++) mean += v[i]!;
-        mean /= count;
-        let ss = 0;
-        for (let i = lo; i < hi; i++) ss += (v[i]! - mean) * (v[i]! - mean);
-        scale = Math.sqrt(ss / count);
-      }
-      const low = centre - nSigma * scale;
-      const high = centre + nSigma * scale;
-      const lo0 = lo;
-      const hi0 = hi;
-      while (lo < hi && v[lo]! < low) lo++;
-      while (hi > lo && v[hi - 1]! > high) hi--;
-      if (lo === lo0 && hi === hi0) break;
-    }
-    let sum = 0;
-    for (let i = lo; i < hi; i++) sum += v[i]!;
-    out[p] = hi > lo ? sum / (hi - lo) : NaN;
-    if (kept) kept[p] = hi - lo;
   }
+}
+
+/**
+ * Most pixels: when max - min fits inside the band of the smallest possible scale (the centre is
+ * >= min and the scale grows with it), the first round keeps every value and the result is their
+ * mean; sorting (branchy, slow on noise) is only needed otherwise. The test with a margin far
+ * above rounding, on the safe side of the exact rule.
+ */
+function keepsAll(low: number, high: number, nSigma: number, noise: { constant: number; perSignal: number }): boolean {
+  const band = nSigma * Math.sqrt(noise.constant + noise.perSignal * (low > 0 ? low : 0));
+  return (high - low) * (1 + 1e-9) + 1e-12 * (Math.abs(low) + Math.abs(high)) <= band;
+}
+
+/** Pixels taken per pass of smallStack (its list of pixels for the sorted path stays small). */
+const CHUNK = 4096;
+
+/**
+ * Up to QUICK_MAX frames, the quick test written out (several times faster than a loop over
+ * them): the last frame stands in for the missing ones, which changes no minimum or maximum.
+ * The quick mean is summed in stack order, not sorted order: the same, since float32 values within
+ * 2^20 of each other add exactly in a double; otherwise only a double's last bit can differ.
+ * Noise makes the test's outcome unpredictable, so nothing branches on it: each chunk of pixels
+ * gets the quick mean everywhere and a list of the pixels that fail, which the sorted path then
+ * overwrites.
+ */
+function smallStack(stack: readonly Float32Array[], options: StackClipOptions, noise: { constant: number; perSignal: number }, out: Float32Array, v: Float64Array, kept?: Uint8Array): void {
+  const n = stack.length;
+  const [s0, s1, s2, s3, s4] = Array.from({ length: QUICK_MAX }, (_, i) => stack[Math.min(i, n - 1)]!);
+  const failed = new Int32Array(CHUNK);
+  for (let p0 = 0; p0 < out.length; p0 += CHUNK) {
+    const p1 = Math.min(out.length, p0 + CHUNK);
+    let count = 0;
+    for (let p = p0; p < p1; p++) {
+      const a = s0![p]!;
+      const b = s1![p]!;
+      const c = s2![p]!;
+      const d = s3![p]!;
+      const e = s4![p]!;
+      let sum = 0;
+      sum += a;
+      if (n > 1) sum += b;
+      if (n > 2) sum += c;
+      if (n > 3) sum += d;
+      if (n > 4) sum += e;
+      let low: number;
+      let high: number;
+      if (inWindow(a) & inWindow(b) & inWindow(c) & (n > 3 ? inWindow(d) & inWindow(e) : 1)) {
+        // Minimum and maximum by arithmetic, without the unpredictable branches of Math.min and
+        // Math.max: in the window every difference t of two values is exact, so
+        // m + (t - |t|) / 2 = min(m, m + t) and m + (t + |t|) / 2 = max(m, m + t) exactly (up to
+        // the sign of a zero, which no decision of keepsAll depends on).
+        let t = b - a;
+        low = a + 0.5 * (t - Math.abs(t));
+        high = a + 0.5 * (t + Math.abs(t));
+        t = c - low;
+        low += 0.5 * (t - Math.abs(t));
+        t = c - high;
+        high += 0.5 * (t + Math.abs(t));
+        if (n > 3) {
+          t = d - low;
+          low += 0.5 * (t - Math.abs(t));
+          t = d - high;
+          high += 0.5 * (t + Math.abs(t));
+          t = e - low;
+          low += 0.5 * (t - Math.abs(t));
+          t = e - high;
+          high += 0.5 * (t + Math.abs(t));
+        }
+      } else {
+        low = Math.min(a, b, c, d, e);
+        high = Math.max(a, b, c, d, e);
+      }
+      out[p] = sum / n;
+      if (kept) kept[p] = n;
+      // A NaN sum: a NaN value (the sorted path skips it) or opposite infinities (which fail the test).
+      failed[count] = p;
+      count += +!(sum === sum && keepsAll(low, high, options.nSigma, noise));
+    }
+    for (let j = 0; j < count; j++) sortedClip(stack, failed[j]!, v, options, out, kept);
+  }
+}
+
+/** Float32 values whose differences are all exact in a double: 0 and 2^-8 <= |x| < 2^20 (multiples of 2^-31 below 2^20 differ by at most 52 bits). */
+const WINDOW_LOW = 2 ** -8;
+const WINDOW_HIGH = 2 ** 20;
+
+/** 1 when x (a float32 value) is in the window, else 0 (NaN and infinities included); no branch. */
+function inWindow(x: number): number {
+  const m = Math.abs(x);
+  return +(m < WINDOW_HIGH) & (+(m >= WINDOW_LOW) | +(x === 0));
+}
+
+/** Pixel p by the full rule: its values sorted, then the clipping rounds. */
+function sortedClip(stack: readonly Float32Array[], p: number, v: Float64Array, options: StackClipOptions, out: Float32Array, kept?: Uint8Array): void {
+  const n = stack.length;
+  const { nSigma, maxIterations, noise } = options;
+  let m = 0;
+  for (let i = 0; i < n; i++) {
+    const x = stack[i]![p]!;
+    if (x !== x) continue;
+    let j = m - 1;
+    while (j >= 0 && v[j]! > x) {
+      v[j + 1] = v[j]!;
+      j--;
+    }
+    v[j + 1] = x;
+    m++;
+  }
+  let lo = 0;
+  let hi = m;
+  for (let iter = 0; iter < maxIterations && hi > lo; iter++) {
+    const count = hi - lo;
+    const half = lo + (count >> 1);
+    const centre = count % 2 === 1 ? v[half]! : 0.5 * (v[half - 1]! + v[half]!);
+    let scale: number;
+    if (noise) {
+      scale = Math.sqrt(noise.constant + noise.perSignal * (centre > 0 ? centre : 0));
+    } else {
+      let mean = 0;
+      for (let i = lo; i < hi; i++) mean += v[i]!;
+      mean /= count;
+      let ss = 0;
+      for (let i = lo; i < hi; i++) ss += (v[i]! - mean) * (v[i]! - mean);
+      scale = Math.sqrt(ss / count);
+    }
+    const low = centre - nSigma * scale;
+    const high = centre + nSigma * scale;
+    const lo0 = lo;
+    const hi0 = hi;
+    while (lo < hi && v[lo]! < low) lo++;
+    while (hi > lo && v[hi - 1]! > high) hi--;
+    if (lo === lo0 && hi === hi0) break;
+  }
+  let sum = 0;
+  for (let i = lo; i < hi; i++) sum += v[i]!;
+  out[p] = hi > lo ? sum / (hi - lo) : NaN;
+  if (kept) kept[p] = hi - lo;
 }

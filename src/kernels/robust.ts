@@ -98,6 +98,10 @@ export function bucketSelect(buf: Float64Array | Float32Array, n: number, k: num
 export function medianOfBuffer(buf: Float64Array | Float32Array, n: number): number {
   if (n === 0) return NaN;
   if (n >= BUCKET_MIN) {
+    // A zero middle value goes to bucketSelect (adjacentRanks only reads buf): which of -0 and +0
+    // a selection returns depends on the order it meets them, and callers have seen bucketSelect's.
+    const pair = middlePair;
+    if (n % 2 === 0 && adjacentRanks(buf, n, (n >> 1) - 1, pair) && pair[0] !== 0 && pair[1] !== 0) return (pair[0]! + pair[1]!) / 2;
     const upper = bucketSelect(buf, n, n >> 1);
     return n % 2 === 1 ? upper : (bucketSelect(buf, n, (n >> 1) - 1) + upper) / 2;
   }
@@ -106,6 +110,76 @@ export function medianOfBuffer(buf: Float64Array | Float32Array, n: number): num
   let lower = -Infinity;
   for (let i = 0; i < n >> 1; i++) if (buf[i]! > lower) lower = buf[i]!;
   return (lower + upper) / 2;
+}
+
+const middlePair = new Float64Array(2);
+let gathered = new Float64Array(0);
+
+/**
+ * pair = the k-th and (k + 1)-th smallest of buf[0..n) (n >= BUCKET_MIN, no NaN): one bucket
+ * pass (as in bucketSelect) serves both ranks, where two bucketSelect calls make two. In
+ * different buckets they are the largest value of the first bucket and the smallest of the next
+ * non-empty one; in the same bucket, its values are copied out (compacted in place when buf is
+ * already that copy) and searched further. buf is only read. False, with nothing changed, when
+ * the values cannot be bucketed (all equal, or a range too wide for a double).
+ */
+function adjacentRanks(buf: Float64Array | Float32Array, n: number, k: number, pair: Float64Array): boolean {
+  const range = valueRange(buf, n);
+  if (!range) return false;
+  const [lo, scale] = range;
+  const counts = bucketCounts;
+  counts.fill(0);
+  for (let i = 0; i < n; i++) counts[Math.min(BUCKETS - 1, ((buf[i]! - lo) * scale) | 0)]++;
+  let below = 0;
+  let first = 0;
+  while (below + counts[first]! <= k) below += counts[first++]!;
+  if (below + counts[first]! > k + 1) {
+    // Both ranks in one bucket (never all values: the lowest and highest fall in different buckets).
+    if (gathered.length < counts[first]!) gathered = new Float64Array(Math.max(counts[first]!, 2 * gathered.length));
+    const work = gathered;
+    let m = 0;
+    for (let i = 0; i < n; i++) {
+      const v = buf[i]!;
+      if (Math.min(BUCKETS - 1, ((v - lo) * scale) | 0) === first) work[m++] = v;
+    }
+    ranksInPlace(work, m, k - below, pair);
+  } else {
+    let next = first + 1;
+    while (counts[next] === 0) next++;
+    let lower = -Infinity;
+    let upper = Infinity;
+    for (let i = 0; i < n; i++) {
+      const v = buf[i]!;
+      const b = Math.min(BUCKETS - 1, ((v - lo) * scale) | 0);
+      if (b === first && v > lower) lower = v;
+      if (b === next && v < upper) upper = v;
+    }
+    pair[0] = lower;
+    pair[1] = upper;
+  }
+  return true;
+}
+
+/** [minimum, BUCKETS / (max - min)] of buf[0..n), or null when the values cannot be bucketed. */
+function valueRange(buf: Float64Array | Float32Array, n: number): [number, number] | null {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const v = buf[i]!;
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  const scale = BUCKETS / (hi - lo);
+  return hi > lo && Number.isFinite(scale) && scale > 0 ? [lo, scale] : null;
+}
+
+/** adjacentRanks on the scratch copy work[0..m) (reordered), or quickselect when it is small or cannot be bucketed. */
+function ranksInPlace(work: Float64Array, m: number, k: number, pair: Float64Array): void {
+  if (m >= BUCKET_MIN && adjacentRanks(work, m, k, pair)) return;
+  pair[1] = selectInPlace(work, m, k + 1);
+  let lower = -Infinity;
+  for (let i = 0; i <= k; i++) if (work[i]! > lower) lower = work[i]!;
+  pair[0] = lower;
 }
 
 /** Median absolute deviation scaled to a Gaussian sigma (MAD x 1.4826). */

@@ -4,7 +4,7 @@
  * flat (low or high response). Threshold: badColumnSigma robust sigmas of that difference over
  * all columns, and at least one read-noise sigma (bias) or 5% (flat) (common practice).
  */
-import { madSigma, median, medianOfBuffer } from '../../kernels/robust.js';
+import { madSigma, medianOfBuffer } from '../../kernels/robust.js';
 
 /** Columns compared with a running median over this many columns each side. */
 const NEIGHBOURS = 7;
@@ -47,18 +47,25 @@ export function findBadColumns(
 /** Columns copied out together: one pass down the image per block instead of one strided pass per column. */
 const COLUMN_BLOCK = 32;
 
-/** The median of each column of a width x height image (NaN ignored). */
+/**
+ * The median of each column of a width x height image (NaN ignored). Each column's finite values
+ * are copied out in order of y, as median() would copy them, and searched in place.
+ */
 export function columnMedians(image: Float32Array, width: number, height: number): Float64Array {
   const out = new Float64Array(width);
   const block = new Float64Array(COLUMN_BLOCK * height);
-  const scratch = new Float64Array(height);
+  const counts = new Int32Array(COLUMN_BLOCK);
   for (let x0 = 0; x0 < width; x0 += COLUMN_BLOCK) {
     const nb = Math.min(COLUMN_BLOCK, width - x0);
+    counts.fill(0);
     for (let y = 0; y < height; y++) {
       const from = y * width + x0;
-      for (let c = 0; c < nb; c++) block[c * height + y] = image[from + c]!;
+      for (let c = 0; c < nb; c++) {
+        const v = image[from + c]!;
+        if (v === v) block[c * height + counts[c]!++] = v;
+      }
     }
-    for (let c = 0; c < nb; c++) out[x0 + c] = median(block.subarray(c * height, (c + 1) * height), scratch);
+    for (let c = 0; c < nb; c++) out[x0 + c] = medianOfBuffer(block.subarray(c * height, (c + 1) * height), counts[c]!);
   }
   return out;
 }

@@ -60,7 +60,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     return data;
   };
 
-  const evidence = dispersionAxisFromArc(minusBias(arcTrim[0]!.data.slice()), tw, th);
+  const evidence = dispersionAxisFromArc(arcTrim[0]!.data, bias.data, tw, th);
   const clear = evidence.ratio >= CLEAR_AXIS_RATIO || evidence.ratio <= 1 / CLEAR_AXIS_RATIO;
   let axis = settings.dispersionAxis === 'auto' ? evidence.axis : settings.dispersionAxis;
   if (settings.dispersionAxis === 'auto' && !clear) {

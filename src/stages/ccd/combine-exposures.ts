@@ -71,6 +71,8 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
       othersT2[i] = sumT2All - t[i]! * t[i]!;
     }
     const flat = cal.masterFlat;
+    // Sizes under which every term of the variance below is finite and >= 0 (see `floor`).
+    const bounded = threshold < Infinity && k0 >= 0 && k0 < 1e50 && t.every((x) => x >= 1e-20 && x <= 1e20);
     for (let p = 0; p < n; p++) {
       let sumV = 0;
       for (let i = 0; i < nExp; i++) {
@@ -80,12 +82,19 @@ export function combineExposures(exposures: CalibratedExposure[], exptimesS: num
       }
       const f = flat[p]!;
       const constant = k0 / (f * f);
+      // The variance is `constant` plus terms >= 0, so (rounding being monotonic) never below it:
+      // an exposure within threshold * sqrt(constant) of its reference passes without the rest
+      // (the same decision; one square root per pixel instead of one per exposure). Only where
+      // the rate, flat and times are of sizes that keep every term finite.
+      const sane = bounded && f > 1e-10 && f < 1e10;
+      const floor = sane ? threshold * Math.sqrt(constant) : -Infinity;
       // Most pixels: every exposure agrees with the others; otherwise search from a low order statistic.
       let kept = all;
       for (let i = 0; i < nExp; i++) {
         const ti = t[i]!;
         const oT = othersT[i]!;
         const rate = (sumV - values[i]!) / oT;
+        if (sane && values[i]! - rate * ti <= floor && Math.abs(rate) < 1e50) continue;
         const rp = rate > 0 ? rate : 0;
         const refVar = (nExp - 1) * constant + (rp * oT) / f + rel2 * rp * rp * othersT2[i]!;
         const e = rp * ti;

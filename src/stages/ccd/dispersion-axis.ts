@@ -13,16 +13,25 @@ export interface AxisEvidence {
 /** Ratios closer to 1 than this leave the axis undecided (common practice). */
 export const CLEAR_AXIS_RATIO = 1.5;
 
-export function dispersionAxisFromArc(arc: Float32Array, width: number, height: number): AxisEvidence {
+/**
+ * `arc` minus `bias` (each difference rounded to float32, as a bias-subtracted frame holds it),
+ * width x height. Two bias-subtracted lines at a time instead of a bias-subtracted copy of the frame.
+ */
+export function dispersionAxisFromArc(arc: Float32Array, bias: Float32Array, width: number, height: number): AxisEvidence {
   let dx = 0;
   let dy = 0;
+  let line = new Float32Array(width);
+  let below = new Float32Array(width);
+  for (let x = 0; x < width; x++) line[x] = arc[x]! - bias[x]!;
   for (let y = 0; y < height - 1; y++) {
-    const row = y * width;
+    const next = (y + 1) * width;
+    for (let x = 0; x < width; x++) below[x] = arc[next + x]! - bias[next + x]!;
     for (let x = 0; x < width - 1; x++) {
-      const v = arc[row + x]!;
-      dx += Math.abs(arc[row + x + 1]! - v);
-      dy += Math.abs(arc[row + width + x]! - v);
+      const v = line[x]!;
+      dx += Math.abs(line[x + 1]! - v);
+      dy += Math.abs(below[x]! - v);
     }
+    [line, below] = [below, line];
   }
   const ratio = dy > 0 ? dx / dy : Infinity;
   return { axis: ratio >= 1 ? 'x' : 'y', ratio };

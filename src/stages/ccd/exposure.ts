@@ -40,12 +40,17 @@ export function calibrateExposure(trimmed: TrimmedFrame, cal: ExposureCalibratio
   const mask = m.data;
   const g = cal.gain;
   const rn2 = cal.readNoiseE * cal.readNoiseE;
+  const { masterBias, masterFlat, flatMask } = cal;
   for (let i = 0; i < n; i++) {
-    const detected = (sci[i]! - cal.masterBias[i]!) * g;
-    const f = cal.masterFlat[i]!;
+    const detected = (sci[i]! - masterBias[i]!) * g;
+    const f = masterFlat[i]!;
     sci[i] = detected / f;
-    variance[i] = ((detected > 0 ? detected : 0) + rn2) / (f * f);
-    mask[i] = mask[i]! | cal.flatMask[i]!;
+    // max(detected, 0) without a branch on its sign (unpredictable on dark pixels): exact for
+    // |detected| < 1e300 (2 detected and the halving are exact, a negative gives +0), NaN included by the fallback.
+    const abs = Math.abs(detected);
+    const poisson = abs < 1e300 ? 0.5 * (detected + abs) : detected > 0 ? detected : 0;
+    variance[i] = (poisson + rn2) / (f * f);
+    mask[i] = mask[i]! | flatMask[i]!;
   }
   return { sci, var: variance, mask };
 }

@@ -31,6 +31,10 @@ export class RowLegendreFitter {
   private readonly residual: Float64Array;
   /** The row with its unusable points set to 0. */
   private readonly maskedRow: Float64Array;
+  /** The kept set a clipping round proposes. */
+  private readonly trial: Uint8Array;
+  /** Stands in for the basis functions past the order in passes of four. */
+  private readonly zeros: Float64Array;
 
   /** Series of `order` over x = 0 .. width - 1 (u = normalise(x, 0, width - 1)). */
   constructor(readonly width: number, readonly order: number) {
@@ -52,6 +56,8 @@ export class RowLegendreFitter {
     this.kept = new Uint8Array(width);
     this.residual = new Float64Array(width);
     this.maskedRow = new Float64Array(width);
+    this.trial = new Uint8Array(width);
+    this.zeros = new Float64Array(width);
   }
 
   /**
@@ -59,54 +65,51 @@ export class RowLegendreFitter {
    * leaves `model` alone) when fewer than 2 (order + 1) points are usable.
    */
   fit(row: ArrayLike<number>, usable: Uint8Array, model: Float32Array, options: RowFitOptions): boolean {
-    const { width, nc, byColumn, normal, kept, residual } = this;
+    const { width, nc, normal, kept, residual } = this;
     const minKept = nc + 1;
     let count = 0;
     for (let x = 0; x < width; x++) count += usable[x]!;
     if (count < 2 * nc) return false;
     this.startNormal(usable);
-    // Right-hand side one basis function at a time (the same sums, in the same order, as per point).
+    // Right-hand side by basis function (the same sums, in the same order, as per point).
     // Unusable points enter as exact zeros (adding 0 changes no sum), which keeps the loop branch-free.
     kept.set(usable);
     const masked = this.maskedRow;
     for (let x = 0; x < width; x++) masked[x] = usable[x] ? row[x]! : 0;
-    for (let k = 0; k < nc; k++) {
-      const column = byColumn.subarray(k * width, (k + 1) * width);
-      let sum = 0;
-      for (let x = 0; x < width; x++) sum += masked[x]! * column[x]!;
-      this.rhs[k] = sum;
+    // Four sums per pass over x: independent chains the processor overlaps (each still in order of x).
+    for (let k = 0; k < nc; k += 4) {
+      const [d0, d1, d2, d3] = this.columns(k);
+      let s0 = 0;
+      let s1 = 0;
+      let s2 = 0;
+      let s3 = 0;
+      for (let x = 0; x < width; x++) {
+        const m = masked[x]!;
+        s0 += m * d0[x]!;
+        s1 += m * d1[x]!;
+        s2 += m * d2[x]!;
+        s3 += m * d3[x]!;
+      }
+      const sums = [s0, s1, s2, s3];
+      for (let j = 0; j < 4 && k + j < nc; j++) this.rhs[k + j] = sums[j]!;
     }
     for (let iter = 0; ; iter++) {
       if (!this.solve()) return false;
-      // The model four basis functions per pass over x (the terms still added in order k = 0, 1, ...).
-      residual.fill(0);
-      let k = 0;
-      for (; k + 4 <= nc; k += 4) {
-        const [c0, c1, c2, c3] = [this.coeffs[k]!, this.coeffs[k + 1]!, this.coeffs[k + 2]!, this.coeffs[k + 3]!];
-        const d0 = byColumn.subarray(k * width, (k + 1) * width);
-        const d1 = byColumn.subarray((k + 1) * width, (k + 2) * width);
-        const d2 = byColumn.subarray((k + 2) * width, (k + 3) * width);
-        const d3 = byColumn.subarray((k + 3) * width, (k + 4) * width);
-        for (let x = 0; x < width; x++) residual[x] = residual[x]! + d0[x]! * c0 + d1[x]! * c1 + d2[x]! * c2 + d3[x]! * c3;
-      }
-      for (; k < nc; k++) {
-        const c = this.coeffs[k]!;
-        const column = byColumn.subarray(k * width, (k + 1) * width);
-        for (let x = 0; x < width; x++) residual[x] = residual[x]! + column[x]! * c;
-      }
-      let chi2 = 0;
-      for (let x = 0; x < width; x++) {
-        residual[x] = row[x]! - residual[x]!;
-        if (kept[x]) chi2 += residual[x]! * residual[x]!;
-      }
+      const chi2 = this.residuals(row);
       if (iter >= options.maxIterations || !(chi2 > 0)) break;
       const limit = options.clipSigma * Math.sqrt(chi2 / count);
+      // The new kept set into `trial`, applied only when it holds enough points.
+      const trial = this.trial;
       let next = 0;
-      for (let x = 0; x < width; x++) if (usable[x] && Math.abs(residual[x]!) <= limit) next++;
+      for (let x = 0; x < width; x++) {
+        const keep = usable[x] && Math.abs(residual[x]!) <= limit ? 1 : 0;
+        trial[x] = keep;
+        next += keep;
+      }
       if (next < minKept) break;
       let changed = false;
       for (let x = 0; x < width; x++) {
-        const keep = usable[x] && Math.abs(residual[x]!) <= limit ? 1 : 0;
+        const keep = trial[x]!;
         if (keep === kept[x]) continue;
         changed = true;
         const sign = keep ? 1 : -1;
@@ -119,6 +122,40 @@ export class RowLegendreFitter {
     }
     for (let x = 0; x < width; x++) model[x] = row[x]! - residual[x]!;
     return true;
+  }
+
+  /**
+   * residual = row - model at every x (the model's terms added in order k = 0, 1, ...); returns
+   * chi2 over the kept points. Four basis functions per pass over x, the last pass also taking
+   * the residual and chi2; basis functions past the order enter as zero columns with coefficient
+   * -0 (their terms are -0, which adding leaves every sum as it was, signed zeros included).
+   */
+  private residuals(row: ArrayLike<number>): number {
+    const { width, nc, coeffs, residual, kept } = this;
+    const c = (k: number): number => (k < nc ? coeffs[k]! : -0);
+    let chi2 = 0;
+    for (let k = 0; k < nc; k += 4) {
+      const [d0, d1, d2, d3] = this.columns(k);
+      const [c0, c1, c2, c3] = [c(k), c(k + 1), c(k + 2), c(k + 3)];
+      const first = k === 0;
+      if (k + 4 < nc) {
+        for (let x = 0; x < width; x++) residual[x] = (first ? 0 : residual[x]!) + d0[x]! * c0 + d1[x]! * c1 + d2[x]! * c2 + d3[x]! * c3;
+        continue;
+      }
+      for (let x = 0; x < width; x++) {
+        const r = row[x]! - ((first ? 0 : residual[x]!) + d0[x]! * c0 + d1[x]! * c1 + d2[x]! * c2 + d3[x]! * c3);
+        residual[x] = r;
+        if (kept[x]) chi2 += r * r;
+      }
+    }
+    return chi2;
+  }
+
+  /** Basis functions k .. k + 3 by x (zero columns past the order). */
+  private columns(k: number): [Float64Array, Float64Array, Float64Array, Float64Array] {
+    const { width, nc, byColumn, zeros } = this;
+    const column = (j: number): Float64Array => (j < nc ? byColumn.subarray(j * width, (j + 1) * width) : zeros);
+    return [column(k), column(k + 1), column(k + 2), column(k + 3)];
   }
 
   /**

@@ -11,6 +11,8 @@ export interface CcdReference {
     width: number; height: number; count: number; gain: number; readNoiseE: number; nSigma: number; maxIterations: number;
     frames: number[]; meanStd: number[]; keptStd: number[]; meanReadNoise: number[]; keptReadNoise: number[];
   };
+  /** Five of the stack's frames with values outside the small-stack window (null: NaN). */
+  stack5: { count: number; frames: (number | null)[]; meanReadNoise: number[]; keptReadNoise: number[] };
   flat: {
     width: number; height: number; count: number; gain: number; readNoiseE: number; order: number;
     frames: number[]; levelAdu: number; combined: number[]; kept: number[]; normalised: number[];
