@@ -16,6 +16,8 @@ import { fitLegendre1D } from '../../kernels/legendre-fit.js';
 import { medianOfBuffer } from '../../kernels/robust.js';
 import type { CalibratedFrame } from '../../products/frame.js';
 
+const B = UniformCubicBSpline;
+
 /** Penalty weight relative to the mean diagonal of the normal matrix (small: fills gaps, hardly bends fitted parts). */
 const PENALTY = 1e-6;
 const BAND = 3;
@@ -52,51 +54,77 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
   }
   const dispersion = (hi - lo) / Math.max(1, width - 1);
   const slit = new Float64Array(height).fill(1);
+  const rows = rowsInUse(input);
   if (order > 0) {
-    const coarse = fitSpline(input, UniformCubicBSpline.covering(lo, hi, dispersion), slit, null, clipSigma, Math.max(rowStep, SLIT_ROW_STEP));
+    const coarse = fitSpline(input, rows, UniformCubicBSpline.covering(lo, hi, dispersion), slit, null, clipSigma, Math.max(rowStep, SLIT_ROW_STEP));
     if (coarse === null) return null;
-    fitSlit(input, coarse, order);
+    fitSlit(input, rows, coarse, order);
   }
   const spline = UniformCubicBSpline.covering(lo, hi, knotSpacingPx * dispersion);
-  let fit = fitSpline(input, spline, slit, null, clipSigma, rowStep);
+  let fit = fitSpline(input, rows, spline, slit, null, clipSigma, rowStep);
   // Each further round clips against the previous model while it accumulates the next fit; a
   // round that drops nothing has converged.
   for (let round = 0; round < iterations && fit !== null; round++) {
-    fit = fitSpline(input, spline, slit, fit, clipSigma, rowStep);
+    fit = fitSpline(input, rows, spline, slit, fit, clipSigma, rowStep);
     if (fit !== null && fit.dropped === 0) break;
   }
   return fit;
 }
 
 /**
- * Least squares of the spline on the used pixels of every rowStep-th row; with `previous`, pixels
- * further than clipSigma noise sigmas from it are first dropped from `use`.
+ * The rows holding a used pixel. The clipping only clears `use`, so they stay a superset through
+ * the rounds; the fits skip the other rows (most of the frame) without visiting their pixels.
  */
-function fitSpline(input: SkyFitInput, spline: UniformCubicBSpline, slit: Float64Array, previous: SkySpline | null, clipSigma: number, rowStep: number): SkySpline | null {
-  const { width, height, sci, wave, use } = input;
+function rowsInUse(input: SkyFitInput): Int32Array {
+  const { width, height, use } = input;
+  const rows: number[] = [];
+  for (let y = 0; y < height; y++) {
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      if (use[i]) {
+        rows.push(y);
+        break;
+      }
+    }
+  }
+  return Int32Array.from(rows);
+}
+
+/**
+ * Least squares of the spline on the used pixels of every rowStep-th row (of `rows`, the rows
+ * holding any); with `previous`, pixels further than clipSigma noise sigmas from it are first
+ * dropped from `use`.
+ */
+function fitSpline(input: SkyFitInput, rows: Int32Array, spline: UniformCubicBSpline, slit: Float64Array, previous: SkySpline | null, clipSigma: number, rowStep: number): SkySpline | null {
+  const { width, sci, wave, use } = input;
   const variance = input.var;
   const n = spline.nBasis;
   const normal = new Float64Array(n * 4);
   const rhs = new Float64Array(n);
-  const b = new Float64Array(4);
-  const pc = previous?.coeffs;
+  const { start, spacing, nIntervals } = spline;
+  const clip = previous !== null;
+  // Without a previous model these are never read; one array type keeps the loop monomorphic.
+  const pc = previous?.coeffs ?? rhs;
+  const pSlit = previous?.slit ?? slit;
   const clip2 = clipSigma * clipSigma;
   let used = 0;
   let dropped = 0;
-  for (let y = 0; y < height; y += rowStep) {
+  for (const y of rows) {
+    if (y % rowStep !== 0) continue;
     const g = slit[y]!;
-    const gPrev = previous ? previous.slit[y]! : 0;
+    const gPrev = pSlit[y]!;
     for (let x = 0, i = y * width; x < width; x++, i++) {
       if (!use[i]) continue;
       const v = variance[i]!;
       if (!(v > 0)) continue;
-      const k = spline.weights(wave[i]!, b);
-      const b0 = b[0]!;
-      const b1 = b[1]!;
-      const b2 = b[2]!;
-      const b3 = b[3]!;
+      const u = wave[i]!;
+      const k = B.interval(u, start, spacing, nIntervals);
+      const s = (u - start) / spacing - k;
+      const b0 = B.basis0(s);
+      const b1 = B.basis1(s);
+      const b2 = B.basis2(s);
+      const b3 = B.basis3(s);
       const d = sci[i]!;
-      if (pc) {
+      if (clip) {
         const res = d - gPrev * (pc[k]! * b0 + pc[k + 1]! * b1 + pc[k + 2]! * b2 + pc[k + 3]! * b3);
         if (res * res > clip2 * v) {
           use[i] = 0;
@@ -157,13 +185,14 @@ function addPenalty(normal: Float64Array, n: number): void {
  * g(y): per sky row the median of data / B over its good pixels, fitted by a clipped Legendre
  * series in y and scaled to a mean of 1 over the sky rows. Writes fit.slit.
  */
-function fitSlit(input: SkyFitInput, fit: SkySpline, order: number): void {
+function fitSlit(input: SkyFitInput, inUse: Int32Array, fit: SkySpline, order: number): void {
   const { width, height, sci, wave, use } = input;
   const ratios = new Float64Array(width);
   const rows: number[] = [];
   const values: number[] = [];
   const b = new Float64Array(4);
-  for (let y = 0; y < height; y += SLIT_ROW_STEP) {
+  for (const y of inUse) {
+    if (y % SLIT_ROW_STEP !== 0) continue;
     let n = 0;
     for (let x = 0; x < width; x++) {
       const i = y * width + x;
@@ -188,24 +217,30 @@ function fitSlit(input: SkyFitInput, fit: SkySpline, order: number): void {
  * `variance` the model's variance b^T Z b (Z the coefficient covariance in band storage).
  */
 export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, width: number, y: number, value: Float64Array, variance: Float64Array | null): void {
-  const b = new Float64Array(4);
+  const { start, spacing, nIntervals } = fit.spline;
   const c = fit.coeffs;
   const z = fit.covariance;
   const g = fit.slit[y]!;
+  // A boolean and one array type keep the loop monomorphic (a nullable array is tested at every pixel).
+  const withVariance = variance !== null;
+  const modelVar = variance ?? value;
   for (let x = 0; x < width; x++) {
-    const k = fit.spline.weights(wave[offset + x]!, b);
-    const b0 = b[0]!;
-    const b1 = b[1]!;
-    const b2 = b[2]!;
-    const b3 = b[3]!;
+    const u = wave[offset + x]!;
+    const k = B.interval(u, start, spacing, nIntervals);
+    const s = (u - start) / spacing - k;
+    const b0 = B.basis0(s);
+    const b1 = B.basis1(s);
+    const b2 = B.basis2(s);
+    const b3 = B.basis3(s);
     value[x] = g * (c[k]! * b0 + c[k + 1]! * b1 + c[k + 2]! * b2 + c[k + 3]! * b3);
-    if (variance) {
+    if (withVariance) {
       // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q).
       const a = k * 4;
       const v =
         b0 * b0 * z[a]! + b1 * b1 * z[a + 4]! + b2 * b2 * z[a + 8]! + b3 * b3 * z[a + 12]! +
         2 * (b1 * b0 * z[a + 5]! + b2 * b1 * z[a + 9]! + b2 * b0 * z[a + 10]! + b3 * b2 * z[a + 13]! + b3 * b1 * z[a + 14]! + b3 * b0 * z[a + 15]!);
-      variance[x] = g * g * v;
+      modelVar[x] = g * g * v;
     }
   }
 }
+

@@ -30,22 +30,29 @@ const EMISSION_ROUNDS = 2;
 export const BAD_PIXEL_BITS = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
 
 export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution, settings: SkySettings): StageResult<{ frame: CalibratedFrame; sky: SkyModel }> {
-  const { width, height } = frame;
+  // The frame's arrays in locals: the per-pixel loops then do not reload them from the frame.
+  const { width, height, mask } = frame;
+  const inSci = frame.sci;
+  const inVar = frame.var;
+  const wave = solution.wave;
   requireSameGrid(frame, solution);
   checkSettings(settings);
   const log = new DiagnosticLog('sky');
   const good = new Uint8Array(width * height);
-  for (let i = 0; i < good.length; i++) good[i] = (frame.mask[i]! & BAD_PIXEL_BITS) === 0 && frame.var[i]! > 0 && Number.isFinite(frame.sci[i]!) ? 1 : 0;
-  const scratch = new Float64Array(width);
   const rowUsable = new Uint8Array(height);
   for (let y = 0; y < height; y++) {
     let n = 0;
-    for (let x = 0; x < width; x++) n += good[y * width + x]!;
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      const ok = (mask[i]! & BAD_PIXEL_BITS) === 0 && inVar[i]! > 0 && Number.isFinite(inSci[i]!) ? 1 : 0;
+      good[i] = ok;
+      n += ok;
+    }
     rowUsable[y] = n >= width / 2 ? 1 : 0;
   }
+  const scratch = new Float64Array(width);
 
   // 1. Continuum profile and a first guess at the sky rows.
-  const continuum = rowMedians(width, height, frame.sci, good, scratch, MEDIAN_STRIDE);
+  const continuum = rowMedians(width, height, inSci, good, scratch, MEDIAN_STRIDE);
   const contRows = rowsAbove(continuum, settings.detectSigma, rowUsable);
   const firstSky = selectRows(height, rowUsable, contRows, settings.edgeRows);
   // The first sky only has to reveal line emission: every second row, one clipping round.
@@ -57,10 +64,10 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const value = new Float64Array(width);
   const modelVar = new Float64Array(width);
   for (let y = 0; y < height; y++) {
-    evaluateRow(first, solution.wave, y * width, width, y, value, null);
-    for (let x = 0, i = y * width; x < width; x++, i++) residual[i] = frame.sci[i]! - value[x]!;
+    evaluateRow(first, wave, y * width, width, y, value, null);
+    for (let x = 0, i = y * width; x < width; x++, i++) residual[i] = inSci[i]! - value[x]!;
   }
-  const emission = emissionScore(width, height, residual, frame.var, good, EMISSION_HALF_ROWS, scratch);
+  const emission = emissionScore(width, height, residual, inVar, good, EMISSION_HALF_ROWS, scratch);
   const emRows = emissionRows(emission, rowUsable, width, settings.detectSigma);
   const flagged = new Uint8Array(height);
   for (let y = 0; y < height; y++) flagged[y] = contRows[y]! | emRows[y]!;
@@ -99,13 +106,13 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   for (let round = 0; round < EMISSION_ROUNDS; round++) {
     for (let y = 0; y < height; y++) {
       if (!skyRows[y]) continue;
-      evaluateRow(model, solution.wave, y * width, width, y, value, null);
-      for (let x = 0, i = y * width; x < width; x++, i++) residual[i] = frame.sci[i]! - value[x]!;
+      evaluateRow(model, wave, y * width, width, y, value, null);
+      for (let x = 0, i = y * width; x < width; x++, i++) residual[i] = inSci[i]! - value[x]!;
     }
-    const more = maskCoherentEmission(width, height, residual, frame.var, use, emissionPixels, skyRows, EMISSION_HALF_ROWS);
+    const more = maskCoherentEmission(width, height, residual, inVar, use, emissionPixels, skyRows, EMISSION_HALF_ROWS);
     if (more === 0) break;
     masked += more;
-    model = fitSkySpline({ width, height, sci: frame.sci, var: frame.var, wave: solution.wave, use }, settings.order, settings.knotSpacingPx, settings.clipSigma, 0) ?? model;
+    model = fitSkySpline({ width, height, sci: inSci, var: inVar, wave, use }, settings.order, settings.knotSpacingPx, settings.clipSigma, 0) ?? model;
   }
   if (masked > 0) log.info('sky-emission', `${masked} sky-row pixels with faint line emission left out of the sky fit`, { actual: masked });
 
@@ -114,15 +121,15 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const sci = residual;
   const variance = new Float32Array(width * height);
   for (let y = 0; y < height; y++) {
-    evaluateRow(model, solution.wave, y * width, width, y, value, modelVar);
+    evaluateRow(model, wave, y * width, width, y, value, modelVar);
     for (let x = 0, i = y * width; x < width; x++, i++) {
-      sci[i] = frame.sci[i]! - value[x]!;
-      variance[i] = frame.var[i]! + modelVar[x]!;
+      sci[i] = inSci[i]! - value[x]!;
+      variance[i] = inVar[i]! + modelVar[x]!;
     }
   }
   const residualNormRms = normalisedResidual(width, height, sci, variance, good, emissionPixels, skyRows);
   const centreRow = Math.round((galaxyRegion[0] + galaxyRegion[1]) / 2);
-  evaluateRow(model, solution.wave, centreRow * width, width, centreRow, value, null);
+  evaluateRow(model, wave, centreRow * width, width, centreRow, value, null);
   const skySpectrum = Float32Array.from(value);
   const rms = median(residualNormRms);
   if (rms > 1.5) log.warn('high-residual', `sky rows scatter ${rms.toFixed(2)} times their noise after subtraction`, { expected: 'about 1', actual: Number(rms.toFixed(3)) });
@@ -154,7 +161,8 @@ function checkSettings(s: SkySettings): void {
 
 /** Fit the sky to the good pixels of `rows`; `use` (filled here) ends as the pixels the fit kept. */
 function fit(frame: CalibratedFrame, solution: WavelengthSolution, good: Uint8Array, rows: Uint8Array, order: number, settings: SkySettings, rowStep = 1, use = new Uint8Array(good.length)): SkySpline | null {
-  for (let y = 0; y < frame.height; y++) if (rows[y]) for (let x = 0, i = y * frame.width; x < frame.width; x++, i++) use[i] = good[i]!;
+  const { width, height } = frame;
+  for (let y = 0; y < height; y++) if (rows[y]) use.set(good.subarray(y * width, (y + 1) * width), y * width);
   return fitSkySpline({ width: frame.width, height: frame.height, sci: frame.sci, var: frame.var, wave: solution.wave, use }, order, settings.knotSpacingPx, settings.clipSigma, settings.clipIterations, rowStep);
 }
 
