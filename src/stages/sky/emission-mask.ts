@@ -36,7 +36,8 @@ export function maskCoherentEmission(width: number, height: number, residual: Fl
     if (!skyRows[y]) continue;
     nSky++;
     for (let x = 0; x < width; x++) {
-      if (!(vsum[x]! > 0) || sum[x]! <= Z_LIMIT * Math.sqrt(vsum[x]!)) continue;
+      // sum <= 0 is below the positive limit without its square root.
+      if (!(vsum[x]! > 0) || sum[x]! <= 0 || sum[x]! <= Z_LIMIT * Math.sqrt(vsum[x]!)) continue;
       for (let k = Math.max(0, x - 1); k <= Math.min(width - 1, x + 1); k++) {
         const i = y * width + k;
         if (use[i] && !marked[i]) {

@@ -48,7 +48,8 @@ export function emissionScore(width: number, height: number, residual: Float32Ar
     if (y - halfRows - 1 >= 0) add(y - halfRows - 1, -1);
     let s = 0;
     for (let x = 0; x < width; x++) {
-      if (count[x]! <= 0 || !(vsum[x]! > 0)) continue;
+      // A sum that is not positive has z <= 0: no square root needed to see it is not above 3.
+      if (count[x]! <= 0 || !(vsum[x]! > 0) || !(sum[x]! > 0)) continue;
       const z = sum[x]! / Math.sqrt(vsum[x]!);
       if (z > 3) s += z - 3;
     }

@@ -95,69 +95,12 @@ function rowsInUse(input: SkyFitInput): Int32Array {
  * dropped from `use`.
  */
 function fitSpline(input: SkyFitInput, rows: Int32Array, spline: UniformCubicBSpline, slit: Float64Array, previous: SkySpline | null, clipSigma: number, rowStep: number): SkySpline | null {
-  const { width, sci, wave, use } = input;
-  const variance = input.var;
   const n = spline.nBasis;
-  const normal = new Float64Array(n * 4);
-  const rhs = new Float64Array(n);
-  const { start, spacing, nIntervals } = spline;
-  const clip = previous !== null;
+  const sums: NormalSums = { normal: new Float64Array(n * 4), rhs: new Float64Array(n), used: 0, dropped: 0 };
   // Without a previous model these are never read; one array type keeps the loop monomorphic.
-  const pc = previous?.coeffs ?? rhs;
-  const pSlit = previous?.slit ?? slit;
-  const clip2 = clipSigma * clipSigma;
-  let used = 0;
-  let dropped = 0;
-  for (const y of rows) {
-    if (y % rowStep !== 0) continue;
-    const g = slit[y]!;
-    const gPrev = pSlit[y]!;
-    for (let x = 0, i = y * width; x < width; x++, i++) {
-      if (!use[i]) continue;
-      const v = variance[i]!;
-      if (!(v > 0)) continue;
-      const u = wave[i]!;
-      const k = B.interval(u, start, spacing, nIntervals);
-      const s = (u - start) / spacing - k;
-      const b0 = B.basis0(s);
-      const b1 = B.basis1(s);
-      const b2 = B.basis2(s);
-      const b3 = B.basis3(s);
-      const d = sci[i]!;
-      if (clip) {
-        const res = d - gPrev * (pc[k]! * b0 + pc[k + 1]! * b1 + pc[k + 2]! * b2 + pc[k + 3]! * b3);
-        if (res * res > clip2 * v) {
-          use[i] = 0;
-          dropped++;
-          continue;
-        }
-      }
-      used++;
-      const w = (g * g) / v;
-      const wd = (g * d) / v;
-      rhs[k] += wd * b0;
-      rhs[k + 1] += wd * b1;
-      rhs[k + 2] += wd * b2;
-      rhs[k + 3] += wd * b3;
-      const a = k * 4;
-      // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q). w * b_p once per row of
-      // the band: (w * b_p) * b_q is the very product w * b_p * b_q (left to right).
-      const w0 = w * b0;
-      const w1 = w * b1;
-      const w2 = w * b2;
-      const w3 = w * b3;
-      normal[a] += w0 * b0;
-      normal[a + 4] += w1 * b1;
-      normal[a + 5] += w1 * b0;
-      normal[a + 8] += w2 * b2;
-      normal[a + 9] += w2 * b1;
-      normal[a + 10] += w2 * b0;
-      normal[a + 12] += w3 * b3;
-      normal[a + 13] += w3 * b2;
-      normal[a + 14] += w3 * b1;
-      normal[a + 15] += w3 * b0;
-    }
-  }
+  const clip: Clip = { on: previous !== null, coeffs: previous?.coeffs ?? sums.rhs, slit: previous?.slit ?? slit, limit2: clipSigma * clipSigma };
+  for (const y of rows) if (y % rowStep === 0) addRow(input, spline, slit[y]!, y, clip, sums);
+  const { normal, rhs, used, dropped } = sums;
   if (used < n / 4) return null;
   addPenalty(normal, n);
   if (!factorBandedLdl(normal, n, BAND)) return null;
@@ -165,6 +108,87 @@ function fitSpline(input: SkyFitInput, rows: Int32Array, spline: UniformCubicBSp
   const covariance = new Float64Array(n * 4);
   bandedInverseInBand(normal, n, BAND, covariance);
   return { spline, coeffs: rhs, covariance, slit, used, dropped };
+}
+
+/** The sums of a fit: the band of the normal matrix (band storage, p = 3), its right-hand side, pixel counts. */
+interface NormalSums {
+  normal: Float64Array;
+  rhs: Float64Array;
+  used: number;
+  dropped: number;
+}
+
+/** Clipping against a previous model (coefficients and slit factor), when `on`. */
+interface Clip {
+  on: boolean;
+  coeffs: Float64Array;
+  slit: Float64Array;
+  /** clipSigma squared. */
+  limit2: number;
+}
+
+/**
+ * Add the used pixels of row y (slit factor g) to the sums, after dropping from `use` those the
+ * clipping rejects. A function per row: small, it is compiled once, where the pixel loop inside
+ * fitSpline had fitSpline compiled again for each kind of call.
+ */
+function addRow(input: SkyFitInput, spline: UniformCubicBSpline, g: number, y: number, clip: Clip, sums: NormalSums): void {
+  const { width, sci, wave, use } = input;
+  const variance = input.var;
+  const { start, spacing, nIntervals } = spline;
+  const { normal, rhs } = sums;
+  const clipping = clip.on;
+  const pc = clip.coeffs;
+  const gPrev = clip.slit[y]!;
+  const clip2 = clip.limit2;
+  // The counts go to `sums` from inside the loop: code after a long first loop has no type
+  // feedback when V8 compiles the loop on the fly, and would send every later call back to the
+  // interpreter.
+  for (let x = 0, i = y * width; x < width; x++, i++) {
+    if (!use[i]) continue;
+    const v = variance[i]!;
+    if (!(v > 0)) continue;
+    const u = wave[i]!;
+    const k = B.interval(u, start, spacing, nIntervals);
+    const s = (u - start) / spacing - k;
+    const b0 = B.basis0(s);
+    const b1 = B.basis1(s);
+    const b2 = B.basis2(s);
+    const b3 = B.basis3(s);
+    const d = sci[i]!;
+    if (clipping) {
+      const res = d - gPrev * (pc[k]! * b0 + pc[k + 1]! * b1 + pc[k + 2]! * b2 + pc[k + 3]! * b3);
+      if (res * res > clip2 * v) {
+        use[i] = 0;
+        sums.dropped++;
+        continue;
+      }
+    }
+    sums.used++;
+    const w = (g * g) / v;
+    const wd = (g * d) / v;
+    rhs[k] += wd * b0;
+    rhs[k + 1] += wd * b1;
+    rhs[k + 2] += wd * b2;
+    rhs[k + 3] += wd * b3;
+    const a = k * 4;
+    // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q). w * b_p once per row of
+    // the band: (w * b_p) * b_q is the very product w * b_p * b_q (left to right).
+    const w0 = w * b0;
+    const w1 = w * b1;
+    const w2 = w * b2;
+    const w3 = w * b3;
+    normal[a] += w0 * b0;
+    normal[a + 4] += w1 * b1;
+    normal[a + 5] += w1 * b0;
+    normal[a + 8] += w2 * b2;
+    normal[a + 9] += w2 * b1;
+    normal[a + 10] += w2 * b0;
+    normal[a + 12] += w3 * b3;
+    normal[a + 13] += w3 * b2;
+    normal[a + 14] += w3 * b1;
+    normal[a + 15] += w3 * b0;
+  }
 }
 
 /** Add PENALTY * mean diagonal * D^T D, D the second-difference operator on the coefficients. */
@@ -244,3 +268,28 @@ export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, 
   }
 }
 
+
+/** out = data - model at every pixel of the rows set in `rows` (of every row when null); rows of `width` pixels, one per slit row of the fit. */
+export function subtractModel(fit: SkySpline, wave: Float64Array, data: Float32Array, width: number, rows: Uint8Array | null, out: Float32Array): void {
+  const height = fit.slit.length;
+  const value = new Float64Array(width);
+  for (let y = 0; y < height; y++) {
+    if (rows !== null && !rows[y]) continue;
+    evaluateRow(fit, wave, y * width, width, y, value, null);
+    for (let x = 0, i = y * width; x < width; x++, i++) out[i] = data[i]! - value[x]!;
+  }
+}
+
+/** sciOut = data - model and varOut = variance + the model's own variance, at every pixel. */
+export function subtractModelWithVariance(fit: SkySpline, wave: Float64Array, data: Float32Array, variance: Float32Array, width: number, sciOut: Float32Array, varOut: Float32Array): void {
+  const height = fit.slit.length;
+  const value = new Float64Array(width);
+  const modelVar = new Float64Array(width);
+  for (let y = 0; y < height; y++) {
+    evaluateRow(fit, wave, y * width, width, y, value, modelVar);
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      sciOut[i] = data[i]! - value[x]!;
+      varOut[i] = variance[i]! + modelVar[x]!;
+    }
+  }
+}

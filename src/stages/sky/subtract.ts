@@ -13,7 +13,7 @@ import { requireSameGrid } from '../arc/same-grid.js';
 import { emissionScore, galaxyRun, MEDIAN_STRIDE, rowMedians, rowsAbove } from './galaxy-rows.js';
 import type { SkySettings } from './settings.js';
 import { maskCoherentEmission } from './emission-mask.js';
-import { evaluateRow, fitSkySpline, type SkySpline } from './sky-spline.js';
+import { evaluateRow, fitSkySpline, subtractModel, subtractModelWithVariance, type SkySpline } from './sky-spline.js';
 
 /** Mask bits that make a pixel unusable for the sky fit and the profiles. */
 /** Least emission score of a galaxy row: about one line with a 5-sigma peak three pixels wide (common practice for a detection floor). */
@@ -30,25 +30,16 @@ const EMISSION_ROUNDS = 2;
 export const BAD_PIXEL_BITS = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
 
 export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution, settings: SkySettings): StageResult<{ frame: CalibratedFrame; sky: SkyModel }> {
-  // The frame's arrays in locals: the per-pixel loops then do not reload them from the frame.
-  const { width, height, mask } = frame;
+  // The pixel loops are functions of their own: each is compiled once, small, where a loop in
+  // this long function would have the whole function compiled again on the fly at each loop.
+  const { width, height } = frame;
   const inSci = frame.sci;
   const inVar = frame.var;
   const wave = solution.wave;
   requireSameGrid(frame, solution);
   checkSettings(settings);
   const log = new DiagnosticLog('sky');
-  const good = new Uint8Array(width * height);
-  const rowUsable = new Uint8Array(height);
-  for (let y = 0; y < height; y++) {
-    let n = 0;
-    for (let x = 0, i = y * width; x < width; x++, i++) {
-      const ok = (mask[i]! & BAD_PIXEL_BITS) === 0 && inVar[i]! > 0 && Number.isFinite(inSci[i]!) ? 1 : 0;
-      good[i] = ok;
-      n += ok;
-    }
-    rowUsable[y] = n >= width / 2 ? 1 : 0;
-  }
+  const { good, rowUsable } = goodPixels(frame);
   const scratch = new Float64Array(width);
 
   // 1. Continuum profile and a first guess at the sky rows.
@@ -61,12 +52,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
 
   // 2. Line emission over the first sky model, then the galaxy region.
   const residual = new Float32Array(width * height);
-  const value = new Float64Array(width);
-  const modelVar = new Float64Array(width);
-  for (let y = 0; y < height; y++) {
-    evaluateRow(first, wave, y * width, width, y, value, null);
-    for (let x = 0, i = y * width; x < width; x++, i++) residual[i] = inSci[i]! - value[x]!;
-  }
+  subtractModel(first, wave, inSci, width, null, residual);
   const emission = emissionScore(width, height, residual, inVar, good, EMISSION_HALF_ROWS, scratch);
   const emRows = emissionRows(emission, rowUsable, width, settings.detectSigma);
   const flagged = new Uint8Array(height);
@@ -104,11 +90,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   let masked = 0;
   const emissionPixels = new Uint8Array(good.length);
   for (let round = 0; round < EMISSION_ROUNDS; round++) {
-    for (let y = 0; y < height; y++) {
-      if (!skyRows[y]) continue;
-      evaluateRow(model, wave, y * width, width, y, value, null);
-      for (let x = 0, i = y * width; x < width; x++, i++) residual[i] = inSci[i]! - value[x]!;
-    }
+    subtractModel(model, wave, inSci, width, skyRows, residual);
     const more = maskCoherentEmission(width, height, residual, inVar, use, emissionPixels, skyRows, EMISSION_HALF_ROWS);
     if (more === 0) break;
     masked += more;
@@ -120,15 +102,10 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   // takes the result (one full-size allocation fewer).
   const sci = residual;
   const variance = new Float32Array(width * height);
-  for (let y = 0; y < height; y++) {
-    evaluateRow(model, wave, y * width, width, y, value, modelVar);
-    for (let x = 0, i = y * width; x < width; x++, i++) {
-      sci[i] = inSci[i]! - value[x]!;
-      variance[i] = inVar[i]! + modelVar[x]!;
-    }
-  }
+  subtractModelWithVariance(model, wave, inSci, inVar, width, sci, variance);
   const residualNormRms = normalisedResidual(width, height, sci, variance, good, emissionPixels, skyRows);
   const centreRow = Math.round((galaxyRegion[0] + galaxyRegion[1]) / 2);
+  const value = new Float64Array(width);
   evaluateRow(model, wave, centreRow * width, width, centreRow, value, null);
   const skySpectrum = Float32Array.from(value);
   const rms = median(residualNormRms);
@@ -144,6 +121,24 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
     emissionProfile: emission,
   };
   return { product: { frame: { ...frame, sci, var: variance }, sky }, diagnostics: log.items };
+}
+
+/** Pixels the sky fit and the profiles may use, and the rows with at least half of them. */
+function goodPixels(frame: CalibratedFrame): { good: Uint8Array; rowUsable: Uint8Array } {
+  const { width, height, mask, sci } = frame;
+  const variance = frame.var;
+  const good = new Uint8Array(width * height);
+  const rowUsable = new Uint8Array(height);
+  for (let y = 0; y < height; y++) {
+    let n = 0;
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      const ok = (mask[i]! & BAD_PIXEL_BITS) === 0 && variance[i]! > 0 && Number.isFinite(sci[i]!) ? 1 : 0;
+      good[i] = ok;
+      n += ok;
+    }
+    rowUsable[y] = n >= width / 2 ? 1 : 0;
+  }
+  return { good, rowUsable };
 }
 
 function checkSettings(s: SkySettings): void {
