@@ -137,8 +137,9 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
     else log.info('flexure', summary, { place });
     if (Math.abs(shift) > 2 * Math.abs(dispersion)) log.warn('large-flexure', `the sky lines are ${(shift / dispersion).toFixed(2)} px off the arc solution: more than the usual 0.1-2 px of flexure (common practice); check that the arc belongs to this setup`, { place });
   }
-  const wave = new Float64Array(solution.wave.length);
-  for (let i = 0; i < wave.length; i++) wave[i] = solution.wave[i]! + shift;
+  const arcWave = solution.wave;
+  const wave = new Float64Array(arcWave.length);
+  for (let i = 0; i < wave.length; i++) wave[i] = arcWave[i]! + shift;
   const flexure: FlexureMeasurement = { shiftAngstrom: shift, shiftErrAngstrom: shiftErr, shiftKms: (shift / lambdaMid) * SPEED_OF_LIGHT_KMS, lines };
   return { product: { ...solution, wave, flexure }, diagnostics: log.items };
 }
