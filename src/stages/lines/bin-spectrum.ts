@@ -69,20 +69,16 @@ export class BinSpectrum {
   /** Add row y with wavelength weight `weight` (> 0; the row's line flux, or 1). */
   addRow(y: number, weight: number): void {
     const { width, sci, var: variance, mask } = this.frame;
-    // The bin's arrays in locals: the column loop then does not reload them from `this`.
-    const { x0, x1, badBits, bad, waveSum, frameWave } = this;
-    const binSci = this.sci;
-    const binVar = this.var;
     const row = y * width;
-    for (let x = x0; x < x1; x++) {
+    for (let x = this.x0; x < this.x1; x++) {
       const i = row + x;
       const v = variance[i]!;
-      if ((mask[i]! & badBits) !== 0 || !(v > 0) || !Number.isFinite(sci[i]!)) bad[x] = 1;
+      if ((mask[i]! & this.badBits) !== 0 || !(v > 0) || !Number.isFinite(sci[i]!)) this.bad[x] = 1;
       else {
-        binSci[x] += sci[i]!;
-        binVar[x] += v;
+        this.sci[x] += sci[i]!;
+        this.var[x] += v;
       }
-      waveSum[x] += weight * frameWave[i]!;
+      this.waveSum[x] += weight * this.frameWave[i]!;
     }
     this.weightSum += weight;
     this.rowSum += weight * y;
@@ -98,12 +94,12 @@ export class BinSpectrum {
   }
 
   private finish(): void {
-    const { x0, x1, wave, waveSum, weightSum, pixelWidth } = this;
-    for (let x = x0; x < x1; x++) wave[x] = waveSum[x]! / weightSum;
+    const { x0, x1 } = this;
+    for (let x = x0; x < x1; x++) this.wave[x] = this.waveSum[x]! / this.weightSum;
     for (let x = x0; x < x1; x++) {
-      const lo = wave[Math.max(x0, x - 1)]!;
-      const hi = wave[Math.min(x1 - 1, x + 1)]!;
-      pixelWidth[x] = (hi - lo) / (x === x0 || x === x1 - 1 ? 1 : 2);
+      const lo = this.wave[Math.max(x0, x - 1)]!;
+      const hi = this.wave[Math.min(x1 - 1, x + 1)]!;
+      this.pixelWidth[x] = (hi - lo) / (x === x0 || x === x1 - 1 ? 1 : 2);
     }
     this.yCentre = this.rowSum / this.weightSum;
   }
