@@ -210,20 +210,13 @@ function addPenalty(normal: Float64Array, n: number): void {
  * series in y and scaled to a mean of 1 over the sky rows. Writes fit.slit.
  */
 function fitSlit(input: SkyFitInput, inUse: Int32Array, fit: SkySpline, order: number): void {
-  const { width, height, sci, wave, use } = input;
+  const { width, height } = input;
   const ratios = new Float64Array(width);
   const rows: number[] = [];
   const values: number[] = [];
-  const b = new Float64Array(4);
   for (const y of inUse) {
     if (y % SLIT_ROW_STEP !== 0) continue;
-    let n = 0;
-    for (let x = 0; x < width; x++) {
-      const i = y * width + x;
-      if (!use[i]) continue;
-      const s = fit.spline.value(fit.coeffs, wave[i]!, b);
-      if (s > 0) ratios[n++] = sci[i]! / s;
-    }
+    const n = rowRatios(input, fit, y, ratios);
     if (n < width / 4) continue;
     rows.push(y);
     values.push(medianOfBuffer(ratios, n));
@@ -234,6 +227,23 @@ function fitSlit(input: SkyFitInput, inUse: Int32Array, fit: SkySpline, order: n
   for (const y of rows) mean += evalLegendre1D(result.model, y);
   mean /= rows.length;
   for (let y = 0; y < height; y++) fit.slit[y] = evalLegendre1D(result.model, y) / mean;
+}
+
+/** data / B of the used pixels of row y where B > 0, into ratios[0..n); returns n. A function of its own, compiled once (as addRow). */
+function rowRatios(input: SkyFitInput, fit: SkySpline, y: number, ratios: Float64Array): number {
+  const { width, sci, wave, use } = input;
+  const { start, spacing, nIntervals } = fit.spline;
+  const c = fit.coeffs;
+  let n = 0;
+  for (let x = 0, i = y * width; x < width; x++, i++) {
+    if (!use[i]) continue;
+    const u = wave[i]!;
+    const k = B.interval(u, start, spacing, nIntervals);
+    const s = (u - start) / spacing - k;
+    const value = c[k]! * B.basis0(s) + c[k + 1]! * B.basis1(s) + c[k + 2]! * B.basis2(s) + c[k + 3]! * B.basis3(s);
+    if (value > 0) ratios[n++] = sci[i]! / value;
+  }
+  return n;
 }
 
 /**
