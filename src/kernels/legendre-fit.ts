@@ -105,19 +105,22 @@ function clippedFit(
   const clipSigma = options.clipSigma ?? 3;
   const maxIterations = options.maxIterations ?? (options.robust ? 20 : 5);
   const minKept = Math.max(options.minKept ?? nc + 1, nc);
+  // The data as a Float64Array whatever the caller passed (plain arrays or typed ones): one kind of
+  // array keeps this function and the solver it calls compiled once.
+  const yv = Float64Array.from(y);
   const base = new Float64Array(n);
   for (let i = 0; i < n; i++) base[i] = weights ? weights[i]! : 1;
   const w = base.slice();
   const used = new Uint8Array(n);
   const residuals = new Float64Array(n);
   for (let iter = 0; ; iter++) {
-    const fit = weightedLeastSquares(design, n, nc, y, w);
+    const fit = weightedLeastSquares(design, n, nc, yv, w);
     let nUsed = 0;
     let sumSq = 0;
     for (let i = 0; i < n; i++) {
       let m = 0;
       for (let k = 0; k < nc; k++) m += design[i * nc + k]! * fit.coeffs[k]!;
-      residuals[i] = y[i]! - m;
+      residuals[i] = yv[i]! - m;
       used[i] = w[i]! > 0 ? 1 : 0;
       if (used[i]) {
         nUsed++;
