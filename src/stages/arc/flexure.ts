@@ -61,6 +61,16 @@ function stackAround(frame: CalibratedFrame, wave: Float64Array, sky: Uint8Array
       swy[b] += w * frame.sci[i]!;
     }
   }
+  return nonEmptyBins(sw, swx, swy);
+}
+
+/**
+ * The stack of the non-empty bins. A function of its own: code after stackAround's long loop has
+ * no type feedback when V8 compiles that loop on the fly, and would send every later call back
+ * to the interpreter.
+ */
+function nonEmptyBins(sw: Float64Array, swx: Float64Array, swy: Float64Array): Stack {
+  const nBins = sw.length;
   let n = 0;
   for (let b = 0; b < nBins; b++) if (sw[b]! > 0) n++;
   const out: Stack = { x: new Float64Array(n), y: new Float64Array(n), w: new Float64Array(n) };
