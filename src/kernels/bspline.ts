@@ -31,18 +31,46 @@ export class UniformCubicBSpline {
    * (weights[i] belongs to basis first + i). Points outside the breakpoints use the end interval.
    */
   weights(u: number, weights: Float64Array): number {
-    let k = Math.floor((u - this.start) / this.spacing);
-    if (k < 0) k = 0;
-    else if (k >= this.nIntervals) k = this.nIntervals - 1;
+    const B = UniformCubicBSpline;
+    const k = B.interval(u, this.start, this.spacing, this.nIntervals);
     const s = (u - this.start) / this.spacing - k;
-    const s2 = s * s;
-    const s3 = s2 * s;
-    const r = 1 - s;
-    weights[0] = (r * r * r) / 6;
-    weights[1] = (3 * s3 - 6 * s2 + 4) / 6;
-    weights[2] = (-3 * s3 + 3 * s2 + 3 * s + 1) / 6;
-    weights[3] = s3 / 6;
+    weights[0] = B.basis0(s);
+    weights[1] = B.basis1(s);
+    weights[2] = B.basis2(s);
+    weights[3] = B.basis3(s);
     return k;
+  }
+
+  // The pieces of `weights` for a loop over many points, which keeps start, spacing and
+  // nIntervals in locals and the basis values in registers (several times faster than a call
+  // writing a scratch array): k = interval(u, ...), s = (u - start) / spacing - k, basis_i(s).
+
+  /** First basis index at u: the interval holding u, the end one for points outside (NaN for NaN). */
+  static interval(u: number, start: number, spacing: number, nIntervals: number): number {
+    const k = Math.floor((u - start) / spacing);
+    if (k < 0) return 0;
+    if (k >= nIntervals) return nIntervals - 1;
+    return k;
+  }
+
+  /** Basis first + 0 at fraction s of the interval. */
+  static basis0(s: number): number {
+    const r = 1 - s;
+    return (r * r * r) / 6;
+  }
+
+  static basis1(s: number): number {
+    const s2 = s * s;
+    return (3 * (s2 * s) - 6 * s2 + 4) / 6;
+  }
+
+  static basis2(s: number): number {
+    const s2 = s * s;
+    return (-3 * (s2 * s) + 3 * s2 + 3 * s + 1) / 6;
+  }
+
+  static basis3(s: number): number {
+    return (s * s * s) / 6;
   }
 
   /** sum_j coeffs[j] B_j(u), with `scratch` of length >= 4. */

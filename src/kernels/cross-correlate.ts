@@ -42,16 +42,22 @@ export class Correlator {
     this.fft.realTransform(this.spectrum, this.input);
     this.fft.completeSpectrum(this.spectrum);
     // A(f) conj(B(f)) transforms back to sum_i a[i + k] b[i] at index k (mod size).
-    const a = this.refSpectrum;
-    const s = this.spectrum;
-    const p = this.product;
-    for (let i = 0; i < 2 * this.size; i += 2) {
-      p[i] = a[i]! * s[i]! + a[i + 1]! * s[i + 1]!;
-      p[i + 1] = a[i + 1]! * s[i]! - a[i]! * s[i + 1]!;
-    }
-    this.fft.inverseTransform(this.back, p);
+    multiplyConjugate(this.refSpectrum, this.spectrum, this.product, this.size);
+    this.fft.inverseTransform(this.back, this.product);
     for (let k = -maxLag; k <= maxLag; k++) out[k + maxLag] = this.back[2 * ((k + this.size) % this.size)]!;
     return out;
+  }
+}
+
+/**
+ * p = a conj(s), complex arrays of `size` interleaved values. A function of its own: code after
+ * a long loop has no type feedback when V8 compiles that loop on the fly, and would send every
+ * later call back to the interpreter.
+ */
+function multiplyConjugate(a: number[], s: number[], p: number[], size: number): void {
+  for (let i = 0; i < 2 * size; i += 2) {
+    p[i] = a[i]! * s[i]! + a[i + 1]! * s[i + 1]!;
+    p[i + 1] = a[i + 1]! * s[i]! - a[i]! * s[i + 1]!;
   }
 }
 

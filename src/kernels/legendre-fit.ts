@@ -54,13 +54,7 @@ export function fitLegendre1D(
 ): LegendreFitResult<Legendre1D> {
   const n = x.length;
   const nc = order + 1;
-  const design = new Float64Array(n * nc);
-  const basis = new Float64Array(nc);
-  for (let i = 0; i < n; i++) {
-    legendreBasis(normalise(x[i]!, range.min, range.max), order, basis);
-    design.set(basis, i * nc);
-  }
-  const fit = clippedFit(design, n, nc, y, weights, options);
+  const fit = clippedFit(design1D(x, order, range), n, nc, y, weights, options);
   return { ...fit, model: { kind: 'legendre1d', min: range.min, max: range.max, coeffs: Array.from(fit.coeffs) } };
 }
 
@@ -76,6 +70,31 @@ export function fitLegendre2D(
   options: LegendreFitOptions = {},
 ): LegendreFitResult<Legendre2D> {
   const n = x.length;
+  const nc = (xOrder + 1) * (yOrder + 1);
+  const fit = clippedFit(design2D(x, y, xOrder, yOrder, range), n, nc, z, weights, options);
+  return { ...fit, model: { kind: 'legendre2d', xOrder, yOrder, ...range, coeffs: Array.from(fit.coeffs) } };
+}
+
+// The design matrices are built in functions of their own: code after a long loop has no type
+// feedback when V8 compiles that loop on the fly, and the fit after it would send every later
+// call back to the interpreter.
+
+/** Row i: P_k(u_i), k = 0..order. */
+function design1D(x: ArrayLike<number>, order: number, range: { min: number; max: number }): Float64Array {
+  const n = x.length;
+  const nc = order + 1;
+  const design = new Float64Array(n * nc);
+  const basis = new Float64Array(nc);
+  for (let i = 0; i < n; i++) {
+    legendreBasis(normalise(x[i]!, range.min, range.max), order, basis);
+    design.set(basis, i * nc);
+  }
+  return design;
+}
+
+/** Row i: P_k(u_i) P_j(v_i) at column j (xOrder + 1) + k. */
+function design2D(x: ArrayLike<number>, y: ArrayLike<number>, xOrder: number, yOrder: number, range: { xMin: number; xMax: number; yMin: number; yMax: number }): Float64Array {
+  const n = x.length;
   const nx = xOrder + 1;
   const nc = nx * (yOrder + 1);
   const design = new Float64Array(n * nc);
@@ -86,8 +105,7 @@ export function fitLegendre2D(
     legendreBasis(normalise(y[i]!, range.yMin, range.yMax), yOrder, py);
     for (let j = 0; j <= yOrder; j++) for (let k = 0; k < nx; k++) design[i * nc + j * nx + k] = px[k]! * py[j]!;
   }
-  const fit = clippedFit(design, n, nc, z, weights, options);
-  return { ...fit, model: { kind: 'legendre2d', xOrder, yOrder, ...range, coeffs: Array.from(fit.coeffs) } };
+  return design;
 }
 
 interface ClippedFit extends Omit<LegendreFitResult<unknown>, 'model'> {
@@ -105,19 +123,22 @@ function clippedFit(
   const clipSigma = options.clipSigma ?? 3;
   const maxIterations = options.maxIterations ?? (options.robust ? 20 : 5);
   const minKept = Math.max(options.minKept ?? nc + 1, nc);
+  // The data as a Float64Array whatever the caller passed (plain arrays or typed ones): one kind of
+  // array keeps this function and the solver it calls compiled once.
+  const yv = Float64Array.from(y);
   const base = new Float64Array(n);
   for (let i = 0; i < n; i++) base[i] = weights ? weights[i]! : 1;
   const w = base.slice();
   const used = new Uint8Array(n);
   const residuals = new Float64Array(n);
   for (let iter = 0; ; iter++) {
-    const fit = weightedLeastSquares(design, n, nc, y, w);
+    const fit = weightedLeastSquares(design, n, nc, yv, w);
     let nUsed = 0;
     let sumSq = 0;
     for (let i = 0; i < n; i++) {
       let m = 0;
       for (let k = 0; k < nc; k++) m += design[i * nc + k]! * fit.coeffs[k]!;
-      residuals[i] = y[i]! - m;
+      residuals[i] = yv[i]! - m;
       used[i] = w[i]! > 0 ? 1 : 0;
       if (used[i]) {
         nUsed++;

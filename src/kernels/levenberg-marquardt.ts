@@ -130,11 +130,22 @@ export function levenbergMarquardt(
     let converged = chi2 === 0;
     while (!converged && iterations < maxIterations) {
       iterations++;
+      // The rare paths (a parameter on a bound, a rejected step) compute their values here, at
+      // every step, with the same operations: code that has never run has no type feedback, and
+      // reaching it would send the compiled solver back to the interpreter to be compiled again.
+      const raised = lambda * 10;
+      const overDamped = raised > MAX_DAMPING;
       let maxDiag = 0;
       for (let k = 0; k < n; k++) maxDiag = Math.max(maxDiag, a[k * n + k]!);
       for (let k = 0; k < n; k++) {
         // A parameter on a bound whose gradient points outward stays there for this step.
-        frozen[k] = (lower !== undefined && p[k]! <= lower[k]! && g[k]! <= 0) || (upper !== undefined && p[k]! >= upper[k]! && g[k]! >= 0) ? 1 : 0;
+        const pk = p[k]!;
+        const gk = g[k]!;
+        const atLower = lower !== undefined ? pk <= lower[k]! : false;
+        const atUpper = upper !== undefined ? pk >= upper[k]! : false;
+        const outwardLow = gk <= 0;
+        const outwardHigh = gk >= 0;
+        frozen[k] = (atLower && outwardLow) || (atUpper && outwardHigh) ? 1 : 0;
       }
       for (let i = 0; i < n; i++) {
         for (let j = 0; j < n; j++) sys[i * n + j] = frozen[i] || frozen[j] ? 0 : a[i * n + j]!;
@@ -143,8 +154,8 @@ export function levenbergMarquardt(
         step[i] = frozen[i] ? 0 : g[i]!;
       }
       if (!choleskyFactor(sys, n)) {
-        lambda *= 10;
-        if (lambda > MAX_DAMPING) break;
+        lambda = raised;
+        if (overDamped) break;
         continue;
       }
       choleskySolve(sys, n, step);
@@ -177,8 +188,8 @@ export function levenbergMarquardt(
         if (relative < relTolerance && lambda <= 1) converged = true;
         lambda = Math.max(lambda / 10, MIN_DAMPING);
       } else {
-        lambda *= 10;
-        if (lambda > MAX_DAMPING) converged = true;
+        lambda = raised;
+        if (overDamped) converged = true;
       }
     }
 

@@ -19,7 +19,9 @@ export interface BandSpectra {
 
 /** Bands of `rowBand` rows from the bottom; the last band takes the leftover rows when they are fewer than half a band. */
 export function extractBands(frame: CalibratedFrame, rowBand: number): BandSpectra {
-  const { width, height } = frame;
+  // The frame's arrays in locals: the pixel loop then does not reload them from the frame.
+  const { width, height, mask, sci } = frame;
+  const variance = frame.var;
   const size = Math.max(1, Math.min(Math.round(rowBand), height));
   let nBands = Math.floor(height / size);
   if (height - nBands * size >= size / 2 || nBands === 0) nBands++;
@@ -32,7 +34,7 @@ export function extractBands(frame: CalibratedFrame, rowBand: number): BandSpect
     yCentre[b] = (rowStart[b]! + rowEnd[b]! - 1) / 2;
   }
   const flux = new Float64Array(nBands * width);
-  const variance = new Float64Array(nBands * width);
+  const meanVar = new Float64Array(nBands * width);
   const saturated = new Uint8Array(nBands * width);
   const count = new Float64Array(width);
   const notUsable = MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
@@ -42,14 +44,14 @@ export function extractBands(frame: CalibratedFrame, rowBand: number): BandSpect
     for (let y = rowStart[b]!; y < rowEnd[b]!; y++) {
       const row = y * width;
       for (let x = 0; x < width; x++) {
-        const m = frame.mask[row + x]!;
+        const m = mask[row + x]!;
         if (m & MASK_BITS.saturated) saturated[off + x] = 1;
         if (m & notUsable) continue;
-        const v = frame.sci[row + x]!;
-        const e = frame.var[row + x]!;
+        const v = sci[row + x]!;
+        const e = variance[row + x]!;
         if (!(v === v) || !(e === e)) continue;
         flux[off + x] += v;
-        variance[off + x] += e;
+        meanVar[off + x] += e;
         count[x]++;
       }
     }
@@ -57,12 +59,12 @@ export function extractBands(frame: CalibratedFrame, rowBand: number): BandSpect
       const n = count[x]!;
       if (n > 0) {
         flux[off + x] /= n;
-        variance[off + x] /= n * n;
+        meanVar[off + x] /= n * n;
       } else {
         flux[off + x] = NaN;
-        variance[off + x] = NaN;
+        meanVar[off + x] = NaN;
       }
     }
   }
-  return { width, nBands, rowStart, rowEnd, yCentre, flux, variance, saturated };
+  return { width, nBands, rowStart, rowEnd, yCentre, flux, variance: meanVar, saturated };
 }

@@ -48,15 +48,21 @@ export function measurePeaks(
   peakColumns: number[],
   blendSigma: number,
 ): ArcPeak[] {
-  const guesses = peakColumns.map((x) => halfMaxSigma(flux, offset, width, x, background[x]!));
+  // Typed copies: the bands' column lists (integers) and widths (integers at the clamps, else
+  // fractions) come in arrays of different element kinds, each of which had V8 compile this
+  // function again.
+  const columns = Float64Array.from(peakColumns);
+  const nPeaks = columns.length;
+  const guesses = new Float64Array(nPeaks);
+  for (let k = 0; k < nPeaks; k++) guesses[k] = halfMaxSigma(flux, offset, width, columns[k]!, background[columns[k]!]!);
   const out: ArcPeak[] = [];
-  for (let k = 0; k < peakColumns.length; k++) {
-    const xp = peakColumns[k]!;
+  for (let k = 0; k < nPeaks; k++) {
+    const xp = columns[k]!;
     const s0 = guesses[k]!;
     const half = Math.max(3, Math.ceil(2.5 * s0));
     // stop the window half-way to a neighbour so that its wing does not pull the centroid
-    const prev = k > 0 ? peakColumns[k - 1]! : -Infinity;
-    const next = k < peakColumns.length - 1 ? peakColumns[k + 1]! : Infinity;
+    const prev = k > 0 ? columns[k - 1]! : -Infinity;
+    const next = k < nPeaks - 1 ? columns[k + 1]! : Infinity;
     const x0 = Math.max(0, xp - half, Math.floor((prev + xp) / 2) + 1);
     const x1 = Math.min(width - 1, xp + half, Math.ceil((xp + next) / 2) - 1);
     const n = x1 - x0 + 1;
@@ -75,9 +81,9 @@ export function measurePeaks(
     }
     const height = flux[offset + xp]! - background[xp]!;
     const neighbourBlend = [k - 1, k + 1].some((j) => {
-      if (j < 0 || j >= peakColumns.length) return false;
-      const sep = Math.abs(peakColumns[j]! - xp);
-      const hj = flux[offset + peakColumns[j]!]! - background[peakColumns[j]!]!;
+      if (j < 0 || j >= nPeaks) return false;
+      const sep = Math.abs(columns[j]! - xp);
+      const hj = flux[offset + columns[j]!]! - background[columns[j]!]!;
       return sep < blendSigma * Math.max(s0, guesses[j]!) && hj > 0.1 * height;
     });
     if (n < 5) {

@@ -61,6 +61,16 @@ function stackAround(frame: CalibratedFrame, wave: Float64Array, sky: Uint8Array
       swy[b] += w * frame.sci[i]!;
     }
   }
+  return nonEmptyBins(sw, swx, swy);
+}
+
+/**
+ * The stack of the non-empty bins. A function of its own: code after stackAround's long loop has
+ * no type feedback when V8 compiles that loop on the fly, and would send every later call back
+ * to the interpreter.
+ */
+function nonEmptyBins(sw: Float64Array, swx: Float64Array, swy: Float64Array): Stack {
+  const nBins = sw.length;
   let n = 0;
   for (let b = 0; b < nBins; b++) if (sw[b]! > 0) n++;
   const out: Stack = { x: new Float64Array(n), y: new Float64Array(n), w: new Float64Array(n) };
@@ -137,8 +147,9 @@ export function measureFlexure(science: CalibratedFrame, solution: WavelengthSol
     else log.info('flexure', summary, { place });
     if (Math.abs(shift) > 2 * Math.abs(dispersion)) log.warn('large-flexure', `the sky lines are ${(shift / dispersion).toFixed(2)} px off the arc solution: more than the usual 0.1-2 px of flexure (common practice); check that the arc belongs to this setup`, { place });
   }
-  const wave = new Float64Array(solution.wave.length);
-  for (let i = 0; i < wave.length; i++) wave[i] = solution.wave[i]! + shift;
+  const arcWave = solution.wave;
+  const wave = new Float64Array(arcWave.length);
+  for (let i = 0; i < wave.length; i++) wave[i] = arcWave[i]! + shift;
   const flexure: FlexureMeasurement = { shiftAngstrom: shift, shiftErrAngstrom: shiftErr, shiftKms: (shift / lambdaMid) * SPEED_OF_LIGHT_KMS, lines };
   return { product: { ...solution, wave, flexure }, diagnostics: log.items };
 }

@@ -29,7 +29,7 @@ export interface GroupWindow {
   /** 1 where the column is excluded. */
   excluded: Uint8Array;
   /** Instrumental sigma (Angstrom) at each member's expected place. */
-  instrumental: number[];
+  instrumental: Float64Array;
   centreRange: [number, number];
   sigmaRange: [number, number];
   fit: GroupFit;
@@ -44,8 +44,15 @@ export function fitBinGroups(bin: BinSpectrum, specs: GroupSpec[], state: Veloci
 
 function fitOneGroup(bin: BinSpectrum, spec: GroupSpec, state: VelocityState, settings: LineSettings, instrumental: InstrumentalSigma): GroupWindow | null {
   const z = 1 + state.vKms / C;
-  const centres = spec.rest.map((r) => r * z);
-  const inst = centres.map((l) => instrumental(bin.columnOf(l), bin.yCentre));
+  // Typed arrays: arrays from .map change their element kind as doubles arrive, and each new
+  // kind had V8 compile this function again.
+  const nMembers = spec.rest.length;
+  const centres = new Float64Array(nMembers);
+  const inst = new Float64Array(nMembers);
+  for (let k = 0; k < nMembers; k++) {
+    centres[k] = spec.rest[k]! * z;
+    inst[k] = instrumental(bin.columnOf(centres[k]!), bin.yCentre);
+  }
   const instRef = inst[0]!;
   const centre = centres[0]!;
   const sigma = Math.max((state.sigmaKms / C) * centre, instRef);

@@ -71,14 +71,23 @@ export function toMeasurements(bin: number, g: GroupWindow, fit: GroupFit, width
 
 export function toBinFit(bin: number, g: GroupWindow, fit: GroupFit): BinFit {
   const { win } = g;
+  const m = win.weight.length;
+  // Plain loops: TypedArray.from with a mapping function takes V8's slow iterator path.
+  const error = new Float32Array(m);
+  const excluded = new Uint8Array(m);
+  for (let i = 0; i < m; i++) {
+    const w = win.weight[i]!;
+    error[i] = w > 0 ? 1 / Math.sqrt(w) : NaN;
+    excluded[i] = w > 0 ? 0 : 1;
+  }
   return {
     bin,
     group: g.spec.name,
-    wavelength: Float64Array.from(win.wave),
-    data: Float32Array.from(win.data),
-    error: Float32Array.from(win.weight, (w) => (w > 0 ? 1 / Math.sqrt(w) : NaN)),
-    model: Float32Array.from(fit.model),
-    excluded: Uint8Array.from(win.weight, (w) => (w > 0 ? 0 : 1)),
+    wavelength: win.wave.slice(),
+    data: new Float32Array(win.data),
+    error,
+    model: new Float32Array(fit.model),
+    excluded,
   };
 }
 

@@ -16,35 +16,19 @@ const MAX_FRACTION = 0.5;
  * neighbours along the row) are removed from `use` and set in `emission`. Returns the number removed.
  */
 export function maskCoherentEmission(width: number, height: number, residual: Float32Array, variance: Float32Array, use: Uint8Array, emission: Uint8Array, skyRows: Uint8Array, halfRows: number): number {
-  const sum = new Float64Array(width);
-  const vsum = new Float64Array(width);
-  const add = (y: number, sign: number): void => {
-    if (y < 0 || y >= height || !skyRows[y]) return;
-    for (let x = 0, i = y * width; x < width; x++, i++) {
-      if (!use[i]) continue;
-      sum[x] += sign * residual[i]!;
-      vsum[x] += sign * variance[i]!;
-    }
-  };
+  const block: Block = { width, height, residual, variance, use, skyRows, sum: new Float64Array(width), vsum: new Float64Array(width) };
   const marked = new Uint8Array(width * height);
   const perColumn = new Int32Array(width);
   let nSky = 0;
-  for (let y = 0; y < halfRows; y++) add(y, 1);
+  // The row work is in functions of their own (module level, not closures made at each call), so
+  // V8 compiles each once.
+  for (let y = 0; y < halfRows; y++) addRow(block, y, 1);
   for (let y = 0; y < height; y++) {
-    add(y + halfRows, 1);
-    add(y - halfRows - 1, -1);
+    addRow(block, y + halfRows, 1);
+    addRow(block, y - halfRows - 1, -1);
     if (!skyRows[y]) continue;
     nSky++;
-    for (let x = 0; x < width; x++) {
-      if (!(vsum[x]! > 0) || sum[x]! <= Z_LIMIT * Math.sqrt(vsum[x]!)) continue;
-      for (let k = Math.max(0, x - 1); k <= Math.min(width - 1, x + 1); k++) {
-        const i = y * width + k;
-        if (use[i] && !marked[i]) {
-          marked[i] = 1;
-          perColumn[k]++;
-        }
-      }
-    }
+    markRow(block, y, marked, perColumn);
   }
   let removed = 0;
   for (let y = 0; y < height; y++) {
@@ -57,4 +41,43 @@ export function maskCoherentEmission(width: number, height: number, residual: Fl
     }
   }
   return removed;
+}
+
+/** The image and the running block sums of residual and variance per column over the block's sky rows. */
+interface Block {
+  width: number;
+  height: number;
+  residual: Float32Array;
+  variance: Float32Array;
+  use: Uint8Array;
+  skyRows: Uint8Array;
+  sum: Float64Array;
+  vsum: Float64Array;
+}
+
+/** Add (sign 1) or remove (sign -1) the used pixels of sky row y to the block sums; rows outside the frame or not sky do nothing. */
+function addRow(b: Block, y: number, sign: number): void {
+  const { width, height, residual, variance, use, skyRows, sum, vsum } = b;
+  if (y < 0 || y >= height || !skyRows[y]) return;
+  for (let x = 0, i = y * width; x < width; x++, i++) {
+    if (!use[i]) continue;
+    sum[x] += sign * residual[i]!;
+    vsum[x] += sign * variance[i]!;
+  }
+}
+
+/** Mark the used pixels of row y (and their two neighbours) whose block z exceeds Z_LIMIT, counting them per column. */
+function markRow(b: Block, y: number, marked: Uint8Array, perColumn: Int32Array): void {
+  const { width, use, sum, vsum } = b;
+  for (let x = 0; x < width; x++) {
+    // sum <= 0 is below the positive limit without its square root.
+    if (!(vsum[x]! > 0) || sum[x]! <= 0 || sum[x]! <= Z_LIMIT * Math.sqrt(vsum[x]!)) continue;
+    for (let k = Math.max(0, x - 1); k <= Math.min(width - 1, x + 1); k++) {
+      const i = y * width + k;
+      if (use[i] && !marked[i]) {
+        marked[i] = 1;
+        perColumn[k]++;
+      }
+    }
+  }
 }

@@ -28,33 +28,55 @@ export function rowMedians(width: number, height: number, values: Float32Array, 
  */
 export function emissionScore(width: number, height: number, residual: Float32Array, variance: Float32Array, good: Uint8Array, halfRows: number, scratch: Float64Array): Float64Array {
   const level = rowMedians(width, height, residual, good, scratch, MEDIAN_STRIDE);
-  const sum = new Float64Array(width);
-  const vsum = new Float64Array(width);
-  const count = new Int32Array(width);
-  const add = (y: number, sign: number): void => {
-    const base = level[y]!;
-    if (base !== base) return;
-    for (let x = 0, i = y * width; x < width; x++, i++) {
-      if (!good[i] || !(variance[i]! > 0)) continue;
-      sum[x] += sign * (residual[i]! - base);
-      vsum[x] += sign * variance[i]!;
-      count[x] += sign;
-    }
-  };
+  const block: EmissionBlock = { width, residual, variance, good, level, sum: new Float64Array(width), vsum: new Float64Array(width), count: new Int32Array(width) };
   const out = new Float64Array(height);
-  for (let y = 0; y < Math.min(height, halfRows); y++) add(y, 1);
+  // The row work is in functions of their own (module level, not closures made at each call), so
+  // V8 compiles each once.
+  for (let y = 0; y < Math.min(height, halfRows); y++) addBlockRow(block, y, 1);
   for (let y = 0; y < height; y++) {
-    if (y + halfRows < height) add(y + halfRows, 1);
-    if (y - halfRows - 1 >= 0) add(y - halfRows - 1, -1);
-    let s = 0;
-    for (let x = 0; x < width; x++) {
-      if (count[x]! <= 0 || !(vsum[x]! > 0)) continue;
-      const z = sum[x]! / Math.sqrt(vsum[x]!);
-      if (z > 3) s += z - 3;
-    }
-    out[y] = s;
+    if (y + halfRows < height) addBlockRow(block, y + halfRows, 1);
+    if (y - halfRows - 1 >= 0) addBlockRow(block, y - halfRows - 1, -1);
+    out[y] = blockExcess(block);
   }
   return out;
+}
+
+/** The residual image and the running sums per column over a block of rows (each row's level removed). */
+interface EmissionBlock {
+  width: number;
+  residual: Float32Array;
+  variance: Float32Array;
+  good: Uint8Array;
+  level: Float64Array;
+  sum: Float64Array;
+  vsum: Float64Array;
+  count: Int32Array;
+}
+
+/** Add (sign 1) or remove (sign -1) row y's good pixels to the block sums; a row without a level does nothing. */
+function addBlockRow(b: EmissionBlock, y: number, sign: number): void {
+  const { width, residual, variance, good, sum, vsum, count } = b;
+  const base = b.level[y]!;
+  if (base !== base) return;
+  for (let x = 0, i = y * width; x < width; x++, i++) {
+    if (!good[i] || !(variance[i]! > 0)) continue;
+    sum[x] += sign * (residual[i]! - base);
+    vsum[x] += sign * variance[i]!;
+    count[x] += sign;
+  }
+}
+
+/** Sum over columns of max(0, z - 3), z the block's noise-normalised excess. */
+function blockExcess(b: EmissionBlock): number {
+  const { width, sum, vsum, count } = b;
+  let s = 0;
+  for (let x = 0; x < width; x++) {
+    // A sum that is not positive has z <= 0: no square root needed to see it is not above 3.
+    if (count[x]! <= 0 || !(vsum[x]! > 0) || !(sum[x]! > 0)) continue;
+    const z = sum[x]! / Math.sqrt(vsum[x]!);
+    if (z > 3) s += z - 3;
+  }
+  return s;
 }
 
 /**

@@ -16,6 +16,8 @@ import { fitLegendre1D } from '../../kernels/legendre-fit.js';
 import { medianOfBuffer } from '../../kernels/robust.js';
 import type { CalibratedFrame } from '../../products/frame.js';
 
+const B = UniformCubicBSpline;
+
 /** Penalty weight relative to the mean diagonal of the normal matrix (small: fills gaps, hardly bends fitted parts). */
 const PENALTY = 1e-6;
 const BAND = 3;
@@ -52,84 +54,53 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
   }
   const dispersion = (hi - lo) / Math.max(1, width - 1);
   const slit = new Float64Array(height).fill(1);
+  const rows = rowsInUse(input);
   if (order > 0) {
-    const coarse = fitSpline(input, UniformCubicBSpline.covering(lo, hi, dispersion), slit, null, clipSigma, Math.max(rowStep, SLIT_ROW_STEP));
+    const coarse = fitSpline(input, rows, UniformCubicBSpline.covering(lo, hi, dispersion), slit, null, clipSigma, Math.max(rowStep, SLIT_ROW_STEP));
     if (coarse === null) return null;
-    fitSlit(input, coarse, order);
+    fitSlit(input, rows, coarse, order);
   }
   const spline = UniformCubicBSpline.covering(lo, hi, knotSpacingPx * dispersion);
-  let fit = fitSpline(input, spline, slit, null, clipSigma, rowStep);
+  let fit = fitSpline(input, rows, spline, slit, null, clipSigma, rowStep);
   // Each further round clips against the previous model while it accumulates the next fit; a
   // round that drops nothing has converged.
   for (let round = 0; round < iterations && fit !== null; round++) {
-    fit = fitSpline(input, spline, slit, fit, clipSigma, rowStep);
+    fit = fitSpline(input, rows, spline, slit, fit, clipSigma, rowStep);
     if (fit !== null && fit.dropped === 0) break;
   }
   return fit;
 }
 
 /**
- * Least squares of the spline on the used pixels of every rowStep-th row; with `previous`, pixels
- * further than clipSigma noise sigmas from it are first dropped from `use`.
+ * The rows holding a used pixel. The clipping only clears `use`, so they stay a superset through
+ * the rounds; the fits skip the other rows (most of the frame) without visiting their pixels.
  */
-function fitSpline(input: SkyFitInput, spline: UniformCubicBSpline, slit: Float64Array, previous: SkySpline | null, clipSigma: number, rowStep: number): SkySpline | null {
-  const { width, height, sci, wave, use } = input;
-  const variance = input.var;
-  const n = spline.nBasis;
-  const normal = new Float64Array(n * 4);
-  const rhs = new Float64Array(n);
-  const b = new Float64Array(4);
-  const pc = previous?.coeffs;
-  const clip2 = clipSigma * clipSigma;
-  let used = 0;
-  let dropped = 0;
-  for (let y = 0; y < height; y += rowStep) {
-    const g = slit[y]!;
-    const gPrev = previous ? previous.slit[y]! : 0;
+function rowsInUse(input: SkyFitInput): Int32Array {
+  const { width, height, use } = input;
+  const rows: number[] = [];
+  for (let y = 0; y < height; y++) {
     for (let x = 0, i = y * width; x < width; x++, i++) {
-      if (!use[i]) continue;
-      const v = variance[i]!;
-      if (!(v > 0)) continue;
-      const k = spline.weights(wave[i]!, b);
-      const b0 = b[0]!;
-      const b1 = b[1]!;
-      const b2 = b[2]!;
-      const b3 = b[3]!;
-      const d = sci[i]!;
-      if (pc) {
-        const res = d - gPrev * (pc[k]! * b0 + pc[k + 1]! * b1 + pc[k + 2]! * b2 + pc[k + 3]! * b3);
-        if (res * res > clip2 * v) {
-          use[i] = 0;
-          dropped++;
-          continue;
-        }
+      if (use[i]) {
+        rows.push(y);
+        break;
       }
-      used++;
-      const w = (g * g) / v;
-      const wd = (g * d) / v;
-      rhs[k] += wd * b0;
-      rhs[k + 1] += wd * b1;
-      rhs[k + 2] += wd * b2;
-      rhs[k + 3] += wd * b3;
-      const a = k * 4;
-      // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q). w * b_p once per row of
-      // the band: (w * b_p) * b_q is the very product w * b_p * b_q (left to right).
-      const w0 = w * b0;
-      const w1 = w * b1;
-      const w2 = w * b2;
-      const w3 = w * b3;
-      normal[a] += w0 * b0;
-      normal[a + 4] += w1 * b1;
-      normal[a + 5] += w1 * b0;
-      normal[a + 8] += w2 * b2;
-      normal[a + 9] += w2 * b1;
-      normal[a + 10] += w2 * b0;
-      normal[a + 12] += w3 * b3;
-      normal[a + 13] += w3 * b2;
-      normal[a + 14] += w3 * b1;
-      normal[a + 15] += w3 * b0;
     }
   }
+  return Int32Array.from(rows);
+}
+
+/**
+ * Least squares of the spline on the used pixels of every rowStep-th row (of `rows`, the rows
+ * holding any); with `previous`, pixels further than clipSigma noise sigmas from it are first
+ * dropped from `use`.
+ */
+function fitSpline(input: SkyFitInput, rows: Int32Array, spline: UniformCubicBSpline, slit: Float64Array, previous: SkySpline | null, clipSigma: number, rowStep: number): SkySpline | null {
+  const n = spline.nBasis;
+  const sums: NormalSums = { normal: new Float64Array(n * 4), rhs: new Float64Array(n), used: 0, dropped: 0 };
+  // Without a previous model these are never read; one array type keeps the loop monomorphic.
+  const clip: Clip = { on: previous !== null, coeffs: previous?.coeffs ?? sums.rhs, slit: previous?.slit ?? slit, limit2: clipSigma * clipSigma };
+  for (const y of rows) if (y % rowStep === 0) addRow(input, spline, slit[y]!, y, clip, sums);
+  const { normal, rhs, used, dropped } = sums;
   if (used < n / 4) return null;
   addPenalty(normal, n);
   if (!factorBandedLdl(normal, n, BAND)) return null;
@@ -139,38 +110,133 @@ function fitSpline(input: SkyFitInput, spline: UniformCubicBSpline, slit: Float6
   return { spline, coeffs: rhs, covariance, slit, used, dropped };
 }
 
-/** Add PENALTY * mean diagonal * D^T D, D the second-difference operator on the coefficients. */
+/** The sums of a fit: the band of the normal matrix (band storage, p = 3), its right-hand side, pixel counts. */
+interface NormalSums {
+  normal: Float64Array;
+  rhs: Float64Array;
+  used: number;
+  dropped: number;
+}
+
+/** Clipping against a previous model (coefficients and slit factor), when `on`. */
+interface Clip {
+  on: boolean;
+  coeffs: Float64Array;
+  slit: Float64Array;
+  /** clipSigma squared. */
+  limit2: number;
+}
+
+/**
+ * Add the used pixels of row y (slit factor g) to the sums, after dropping from `use` those the
+ * clipping rejects. A function per row: small, it is compiled once, where the pixel loop inside
+ * fitSpline had fitSpline compiled again for each kind of call.
+ */
+function addRow(input: SkyFitInput, spline: UniformCubicBSpline, g: number, y: number, clip: Clip, sums: NormalSums): void {
+  const { width, sci, wave, use } = input;
+  const variance = input.var;
+  const { start, spacing, nIntervals } = spline;
+  const { normal, rhs } = sums;
+  const clipping = clip.on;
+  const pc = clip.coeffs;
+  const gPrev = clip.slit[y]!;
+  const clip2 = clip.limit2;
+  // The counts go to `sums` from inside the loop: code after a long first loop has no type
+  // feedback when V8 compiles the loop on the fly, and would send every later call back to the
+  // interpreter.
+  for (let x = 0, i = y * width; x < width; x++, i++) {
+    if (!use[i]) continue;
+    const v = variance[i]!;
+    if (!(v > 0)) continue;
+    const u = wave[i]!;
+    const k = B.interval(u, start, spacing, nIntervals);
+    const s = (u - start) / spacing - k;
+    const b0 = B.basis0(s);
+    const b1 = B.basis1(s);
+    const b2 = B.basis2(s);
+    const b3 = B.basis3(s);
+    const d = sci[i]!;
+    if (clipping) {
+      const res = d - gPrev * (pc[k]! * b0 + pc[k + 1]! * b1 + pc[k + 2]! * b2 + pc[k + 3]! * b3);
+      if (res * res > clip2 * v) {
+        use[i] = 0;
+        sums.dropped++;
+        continue;
+      }
+    }
+    sums.used++;
+    const w = (g * g) / v;
+    const wd = (g * d) / v;
+    rhs[k] += wd * b0;
+    rhs[k + 1] += wd * b1;
+    rhs[k + 2] += wd * b2;
+    rhs[k + 3] += wd * b3;
+    const a = k * 4;
+    // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q). w * b_p once per row of
+    // the band: (w * b_p) * b_q is the very product w * b_p * b_q (left to right).
+    const w0 = w * b0;
+    const w1 = w * b1;
+    const w2 = w * b2;
+    const w3 = w * b3;
+    normal[a] += w0 * b0;
+    normal[a + 4] += w1 * b1;
+    normal[a + 5] += w1 * b0;
+    normal[a + 8] += w2 * b2;
+    normal[a + 9] += w2 * b1;
+    normal[a + 10] += w2 * b0;
+    normal[a + 12] += w3 * b3;
+    normal[a + 13] += w3 * b2;
+    normal[a + 14] += w3 * b1;
+    normal[a + 15] += w3 * b0;
+  }
+}
+
+/**
+ * Add PENALTY * mean diagonal * D^T D, D the second-difference operator on the coefficients.
+ * One loop per function: V8 compiles a long loop on the fly, and code after it in the same
+ * function would have no type feedback yet and send every later call back to the interpreter.
+ */
 function addPenalty(normal: Float64Array, n: number): void {
+  const kappa = penaltyWeight(normal, n);
+  addSecondDifferences(normal, n, kappa);
+  // An empty stretch at the very ends is held by a tiny ridge so the system stays definite.
+  addRidge(normal, n, kappa * 1e-6);
+}
+
+function penaltyWeight(normal: Float64Array, n: number): number {
   const w4 = BAND + 1;
   let mean = 0;
   for (let k = 0; k < n; k++) mean += normal[k * w4]!;
-  const kappa = (PENALTY * mean) / n || PENALTY;
-  const d = [1, -2, 1];
+  return (PENALTY * mean) / n || PENALTY;
+}
+
+const SECOND_DIFFERENCE = [1, -2, 1];
+
+function addSecondDifferences(normal: Float64Array, n: number, kappa: number): void {
+  const w4 = BAND + 1;
+  const d = SECOND_DIFFERENCE;
   for (let r = 0; r + 2 < n; r++) {
     for (let p = 0; p < 3; p++) for (let q = 0; q <= p; q++) normal[(r + p) * w4 + (p - q)] += kappa * d[p]! * d[q]!;
   }
-  // An empty stretch at the very ends is held by a tiny ridge so the system stays definite.
-  for (let k = 0; k < n; k++) normal[k * w4] += kappa * 1e-6;
+}
+
+function addRidge(normal: Float64Array, n: number, ridge: number): void {
+  const w4 = BAND + 1;
+  for (let k = 0; k < n; k++) normal[k * w4] += ridge;
 }
 
 /**
  * g(y): per sky row the median of data / B over its good pixels, fitted by a clipped Legendre
  * series in y and scaled to a mean of 1 over the sky rows. Writes fit.slit.
  */
-function fitSlit(input: SkyFitInput, fit: SkySpline, order: number): void {
-  const { width, height, sci, wave, use } = input;
+function fitSlit(input: SkyFitInput, inUse: Int32Array, fit: SkySpline, order: number): void {
+  const { width, height } = input;
   const ratios = new Float64Array(width);
   const rows: number[] = [];
   const values: number[] = [];
-  const b = new Float64Array(4);
-  for (let y = 0; y < height; y += SLIT_ROW_STEP) {
-    let n = 0;
-    for (let x = 0; x < width; x++) {
-      const i = y * width + x;
-      if (!use[i]) continue;
-      const s = fit.spline.value(fit.coeffs, wave[i]!, b);
-      if (s > 0) ratios[n++] = sci[i]! / s;
-    }
+  for (const y of inUse) {
+    if (y % SLIT_ROW_STEP !== 0) continue;
+    const n = rowRatios(input, fit, y, ratios);
     if (n < width / 4) continue;
     rows.push(y);
     values.push(medianOfBuffer(ratios, n));
@@ -183,29 +249,77 @@ function fitSlit(input: SkyFitInput, fit: SkySpline, order: number): void {
   for (let y = 0; y < height; y++) fit.slit[y] = evalLegendre1D(result.model, y) / mean;
 }
 
+/** data / B of the used pixels of row y where B > 0, into ratios[0..n); returns n. A function of its own, compiled once (as addRow). */
+function rowRatios(input: SkyFitInput, fit: SkySpline, y: number, ratios: Float64Array): number {
+  const { width, sci, wave, use } = input;
+  const { start, spacing, nIntervals } = fit.spline;
+  const c = fit.coeffs;
+  let n = 0;
+  for (let x = 0, i = y * width; x < width; x++, i++) {
+    if (!use[i]) continue;
+    const u = wave[i]!;
+    const k = B.interval(u, start, spacing, nIntervals);
+    const s = (u - start) / spacing - k;
+    const value = c[k]! * B.basis0(s) + c[k + 1]! * B.basis1(s) + c[k + 2]! * B.basis2(s) + c[k + 3]! * B.basis3(s);
+    if (value > 0) ratios[n++] = sci[i]! / value;
+  }
+  return n;
+}
+
 /**
  * Model values of the pixels offset..offset+width-1 (row y) into value[0..width), and with
  * `variance` the model's variance b^T Z b (Z the coefficient covariance in band storage).
  */
 export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, width: number, y: number, value: Float64Array, variance: Float64Array | null): void {
-  const b = new Float64Array(4);
+  const { start, spacing, nIntervals } = fit.spline;
   const c = fit.coeffs;
   const z = fit.covariance;
   const g = fit.slit[y]!;
+  // A boolean and one array type keep the loop monomorphic (a nullable array is tested at every pixel).
+  const withVariance = variance !== null;
+  const modelVar = variance ?? value;
   for (let x = 0; x < width; x++) {
-    const k = fit.spline.weights(wave[offset + x]!, b);
-    const b0 = b[0]!;
-    const b1 = b[1]!;
-    const b2 = b[2]!;
-    const b3 = b[3]!;
+    const u = wave[offset + x]!;
+    const k = B.interval(u, start, spacing, nIntervals);
+    const s = (u - start) / spacing - k;
+    const b0 = B.basis0(s);
+    const b1 = B.basis1(s);
+    const b2 = B.basis2(s);
+    const b3 = B.basis3(s);
     value[x] = g * (c[k]! * b0 + c[k + 1]! * b1 + c[k + 2]! * b2 + c[k + 3]! * b3);
-    if (variance) {
+    if (withVariance) {
       // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q).
       const a = k * 4;
       const v =
         b0 * b0 * z[a]! + b1 * b1 * z[a + 4]! + b2 * b2 * z[a + 8]! + b3 * b3 * z[a + 12]! +
         2 * (b1 * b0 * z[a + 5]! + b2 * b1 * z[a + 9]! + b2 * b0 * z[a + 10]! + b3 * b2 * z[a + 13]! + b3 * b1 * z[a + 14]! + b3 * b0 * z[a + 15]!);
-      variance[x] = g * g * v;
+      modelVar[x] = g * g * v;
+    }
+  }
+}
+
+
+/** out = data - model at every pixel of the rows set in `rows` (of every row when null); rows of `width` pixels, one per slit row of the fit. */
+export function subtractModel(fit: SkySpline, wave: Float64Array, data: Float32Array, width: number, rows: Uint8Array | null, out: Float32Array): void {
+  const height = fit.slit.length;
+  const value = new Float64Array(width);
+  for (let y = 0; y < height; y++) {
+    if (rows !== null && !rows[y]) continue;
+    evaluateRow(fit, wave, y * width, width, y, value, null);
+    for (let x = 0, i = y * width; x < width; x++, i++) out[i] = data[i]! - value[x]!;
+  }
+}
+
+/** sciOut = data - model and varOut = variance + the model's own variance, at every pixel. */
+export function subtractModelWithVariance(fit: SkySpline, wave: Float64Array, data: Float32Array, variance: Float32Array, width: number, sciOut: Float32Array, varOut: Float32Array): void {
+  const height = fit.slit.length;
+  const value = new Float64Array(width);
+  const modelVar = new Float64Array(width);
+  for (let y = 0; y < height; y++) {
+    evaluateRow(fit, wave, y * width, width, y, value, modelVar);
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      sciOut[i] = data[i]! - value[x]!;
+      varOut[i] = variance[i]! + modelVar[x]!;
     }
   }
 }

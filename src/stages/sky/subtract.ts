@@ -13,7 +13,7 @@ import { requireSameGrid } from '../arc/same-grid.js';
 import { emissionScore, galaxyRun, MEDIAN_STRIDE, rowMedians, rowsAbove } from './galaxy-rows.js';
 import type { SkySettings } from './settings.js';
 import { maskCoherentEmission } from './emission-mask.js';
-import { evaluateRow, fitSkySpline, type SkySpline } from './sky-spline.js';
+import { evaluateRow, fitSkySpline, subtractModel, subtractModelWithVariance, type SkySpline } from './sky-spline.js';
 
 /** Mask bits that make a pixel unusable for the sky fit and the profiles. */
 /** Least emission score of a galaxy row: about one line with a 5-sigma peak three pixels wide (common practice for a detection floor). */
@@ -30,22 +30,20 @@ const EMISSION_ROUNDS = 2;
 export const BAD_PIXEL_BITS = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
 
 export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution, settings: SkySettings): StageResult<{ frame: CalibratedFrame; sky: SkyModel }> {
+  // The pixel loops are functions of their own: each is compiled once, small, where a loop in
+  // this long function would have the whole function compiled again on the fly at each loop.
   const { width, height } = frame;
+  const inSci = frame.sci;
+  const inVar = frame.var;
+  const wave = solution.wave;
   requireSameGrid(frame, solution);
   checkSettings(settings);
   const log = new DiagnosticLog('sky');
-  const good = new Uint8Array(width * height);
-  for (let i = 0; i < good.length; i++) good[i] = (frame.mask[i]! & BAD_PIXEL_BITS) === 0 && frame.var[i]! > 0 && Number.isFinite(frame.sci[i]!) ? 1 : 0;
+  const { good, rowUsable } = goodPixels(frame);
   const scratch = new Float64Array(width);
-  const rowUsable = new Uint8Array(height);
-  for (let y = 0; y < height; y++) {
-    let n = 0;
-    for (let x = 0; x < width; x++) n += good[y * width + x]!;
-    rowUsable[y] = n >= width / 2 ? 1 : 0;
-  }
 
   // 1. Continuum profile and a first guess at the sky rows.
-  const continuum = rowMedians(width, height, frame.sci, good, scratch, MEDIAN_STRIDE);
+  const continuum = rowMedians(width, height, inSci, good, scratch, MEDIAN_STRIDE);
   const contRows = rowsAbove(continuum, settings.detectSigma, rowUsable);
   const firstSky = selectRows(height, rowUsable, contRows, settings.edgeRows);
   // The first sky only has to reveal line emission: every second row, one clipping round.
@@ -54,13 +52,8 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
 
   // 2. Line emission over the first sky model, then the galaxy region.
   const residual = new Float32Array(width * height);
-  const value = new Float64Array(width);
-  const modelVar = new Float64Array(width);
-  for (let y = 0; y < height; y++) {
-    evaluateRow(first, solution.wave, y * width, width, y, value, null);
-    for (let x = 0, i = y * width; x < width; x++, i++) residual[i] = frame.sci[i]! - value[x]!;
-  }
-  const emission = emissionScore(width, height, residual, frame.var, good, EMISSION_HALF_ROWS, scratch);
+  subtractModel(first, wave, inSci, width, null, residual);
+  const emission = emissionScore(width, height, residual, inVar, good, EMISSION_HALF_ROWS, scratch);
   const emRows = emissionRows(emission, rowUsable, width, settings.detectSigma);
   const flagged = new Uint8Array(height);
   for (let y = 0; y < height; y++) flagged[y] = contRows[y]! | emRows[y]!;
@@ -97,15 +90,11 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   let masked = 0;
   const emissionPixels = new Uint8Array(good.length);
   for (let round = 0; round < EMISSION_ROUNDS; round++) {
-    for (let y = 0; y < height; y++) {
-      if (!skyRows[y]) continue;
-      evaluateRow(model, solution.wave, y * width, width, y, value, null);
-      for (let x = 0, i = y * width; x < width; x++, i++) residual[i] = frame.sci[i]! - value[x]!;
-    }
-    const more = maskCoherentEmission(width, height, residual, frame.var, use, emissionPixels, skyRows, EMISSION_HALF_ROWS);
+    subtractModel(model, wave, inSci, width, skyRows, residual);
+    const more = maskCoherentEmission(width, height, residual, inVar, use, emissionPixels, skyRows, EMISSION_HALF_ROWS);
     if (more === 0) break;
     masked += more;
-    model = fitSkySpline({ width, height, sci: frame.sci, var: frame.var, wave: solution.wave, use }, settings.order, settings.knotSpacingPx, settings.clipSigma, 0) ?? model;
+    model = fitSkySpline({ width, height, sci: inSci, var: inVar, wave, use }, settings.order, settings.knotSpacingPx, settings.clipSigma, 0) ?? model;
   }
   if (masked > 0) log.info('sky-emission', `${masked} sky-row pixels with faint line emission left out of the sky fit`, { actual: masked });
 
@@ -113,16 +102,11 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   // takes the result (one full-size allocation fewer).
   const sci = residual;
   const variance = new Float32Array(width * height);
-  for (let y = 0; y < height; y++) {
-    evaluateRow(model, solution.wave, y * width, width, y, value, modelVar);
-    for (let x = 0, i = y * width; x < width; x++, i++) {
-      sci[i] = frame.sci[i]! - value[x]!;
-      variance[i] = frame.var[i]! + modelVar[x]!;
-    }
-  }
+  subtractModelWithVariance(model, wave, inSci, inVar, width, sci, variance);
   const residualNormRms = normalisedResidual(width, height, sci, variance, good, emissionPixels, skyRows);
   const centreRow = Math.round((galaxyRegion[0] + galaxyRegion[1]) / 2);
-  evaluateRow(model, solution.wave, centreRow * width, width, centreRow, value, null);
+  const value = new Float64Array(width);
+  evaluateRow(model, wave, centreRow * width, width, centreRow, value, null);
   const skySpectrum = Float32Array.from(value);
   const rms = median(residualNormRms);
   if (rms > 1.5) log.warn('high-residual', `sky rows scatter ${rms.toFixed(2)} times their noise after subtraction`, { expected: 'about 1', actual: Number(rms.toFixed(3)) });
@@ -137,6 +121,24 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
     emissionProfile: emission,
   };
   return { product: { frame: { ...frame, sci, var: variance }, sky }, diagnostics: log.items };
+}
+
+/** Pixels the sky fit and the profiles may use, and the rows with at least half of them. */
+function goodPixels(frame: CalibratedFrame): { good: Uint8Array; rowUsable: Uint8Array } {
+  const { width, height, mask, sci } = frame;
+  const variance = frame.var;
+  const good = new Uint8Array(width * height);
+  const rowUsable = new Uint8Array(height);
+  for (let y = 0; y < height; y++) {
+    let n = 0;
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      const ok = (mask[i]! & BAD_PIXEL_BITS) === 0 && variance[i]! > 0 && Number.isFinite(sci[i]!) ? 1 : 0;
+      good[i] = ok;
+      n += ok;
+    }
+    rowUsable[y] = n >= width / 2 ? 1 : 0;
+  }
+  return { good, rowUsable };
 }
 
 function checkSettings(s: SkySettings): void {
@@ -154,7 +156,8 @@ function checkSettings(s: SkySettings): void {
 
 /** Fit the sky to the good pixels of `rows`; `use` (filled here) ends as the pixels the fit kept. */
 function fit(frame: CalibratedFrame, solution: WavelengthSolution, good: Uint8Array, rows: Uint8Array, order: number, settings: SkySettings, rowStep = 1, use = new Uint8Array(good.length)): SkySpline | null {
-  for (let y = 0; y < frame.height; y++) if (rows[y]) for (let x = 0, i = y * frame.width; x < frame.width; x++, i++) use[i] = good[i]!;
+  const { width, height } = frame;
+  for (let y = 0; y < height; y++) if (rows[y]) use.set(good.subarray(y * width, (y + 1) * width), y * width);
   return fitSkySpline({ width: frame.width, height: frame.height, sci: frame.sci, var: frame.var, wave: solution.wave, use }, order, settings.knotSpacingPx, settings.clipSigma, settings.clipIterations, rowStep);
 }
 
