@@ -6,6 +6,7 @@ import { InputError } from '../errors.js';
 import type { Header } from './header.js';
 import { readTiledImage } from './tiled-image.js';
 import type { FitsFile, Hdu, ImageData } from './types.js';
+import { decodeUnsigned16 } from './unsigned16.js';
 
 export interface ReadImageOptions {
   /** Return a Float32Array whatever BITPIX is (raw frames); default: Float64Array for BITPIX 32, 64, -64. */
@@ -102,6 +103,31 @@ export function decodeStored(
 export function readImage(file: FitsFile, index: number, options: ReadImageOptions = {}): ImageData {
   const hdu = hduAt(file, index);
   if (hdu.kind === 'compressed-image') return readTiledImage(file, hdu, options.float32 ?? false);
+  const { bitpix, axes, n } = plainImage(file, index);
+  const out = outputFor(bitpix, n, options.float32 ?? false);
+  const { zero, scale, blank } = scalingOf(hdu.header, bitpix);
+  const counts = decodeStored(file.bytes, hdu.dataOffset, bitpix, out, zero, scale, blank);
+  return { width: axes[0]!, height: axes[1] ?? 1, axes, data: out, ...counts };
+}
+
+/**
+ * The pixels of a plain image HDU as a Uint16Array when its physical values are the unsigned
+ * 16-bit integers of the usual convention (BITPIX 16, BZERO 32768, BSCALE 1, no BLANK; FITS
+ * Standard 4.0 section 5.2.5): the values readImage gives, exactly, in half the memory of a
+ * Float32Array. Undefined for any other image.
+ */
+export function readUnsigned16(file: FitsFile, index: number): { width: number; height: number; data: Uint16Array } | undefined {
+  const hdu = hduAt(file, index);
+  if (hdu.kind !== 'image' || hdu.header.getNumber('BITPIX') !== 16 || !(hdu.header.getNumber('NAXIS')! > 0)) return undefined;
+  const { zero, scale, blank } = scalingOf(hdu.header, 16);
+  if (zero !== 32768 || scale !== 1 || blank !== undefined) return undefined;
+  const { axes, n } = plainImage(file, index);
+  return { width: axes[0]!, height: axes[1] ?? 1, data: decodeUnsigned16(file.bytes, hdu.dataOffset, n) };
+}
+
+/** BITPIX, axes and pixel count of the plain image HDU at `index`, checked against its data unit. */
+function plainImage(file: FitsFile, index: number): { bitpix: number; axes: number[]; n: number } {
+  const hdu = hduAt(file, index);
   const place = { file: file.source, hdu: index };
   if (hdu.kind !== 'image') {
     throw new InputError('fits.not-image', 'HDU is not an image', place, { expected: 'an image or compressed-image HDU', actual: hdu.kind });
@@ -114,8 +140,5 @@ export function readImage(file: FitsFile, index: number, options: ReadImageOptio
   if (n * (Math.abs(bitpix) / 8) > hdu.dataLength) {
     throw new InputError('fits.bad-keyword', 'data unit is smaller than the image axes need', { ...place, key: 'GCOUNT' }, { expected: `${n * (Math.abs(bitpix) / 8)} bytes`, actual: `${hdu.dataLength} bytes (GCOUNT x (PCOUNT + NAXIS1 x ...))` });
   }
-  const out = outputFor(bitpix, n, options.float32 ?? false);
-  const { zero, scale, blank } = scalingOf(hdu.header, bitpix);
-  const counts = decodeStored(file.bytes, hdu.dataOffset, bitpix, out, zero, scale, blank);
-  return { width: axes[0]!, height: axes[1] ?? 1, axes, data: out, ...counts };
+  return { bitpix, axes, n };
 }

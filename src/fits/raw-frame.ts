@@ -1,8 +1,8 @@
-/** Loading a raw CCD frame: the first HDU holding a 2-D image, in physical ADU as Float32Array. */
+/** Loading a raw CCD frame: the first HDU holding a 2-D image, in physical ADU (Uint16Array or Float32Array). */
 import { InputError } from '../errors.js';
 import type { RawFrame } from '../products/frame.js';
 import { Header } from './header.js';
-import { readImage } from './image.js';
+import { readImage, readUnsigned16 } from './image.js';
 import { readFitsFileTransient } from './read-file.js';
 import type { FitsFile, Hdu } from './types.js';
 
@@ -35,7 +35,8 @@ export function inheritedHeader(file: FitsFile, hdu: Hdu): Header {
 }
 
 /**
- * The first 2-D image of a file as a RawFrame. Soft problems (a CHECKSUM mismatch, an unreadable
+ * The first 2-D image of a file as a RawFrame: unsigned 16-bit pixels (the usual raw frame) as a
+ * Uint16Array, any other image as a Float32Array. Soft problems (a CHECKSUM mismatch, an unreadable
  * card value) are appended to `warnings` when given, so the caller can turn them into diagnostics.
  */
 export function loadRawFrame(path: string, warnings?: string[]): RawFrame {
@@ -45,6 +46,6 @@ export function loadRawFrame(path: string, warnings?: string[]): RawFrame {
   if (!hdu) {
     throw new InputError('fits.no-frame', 'no HDU holds a 2-D image', { file: path }, { expected: 'an image HDU with NAXIS = 2', actual: file.hdus.map((h) => h.kind).join(', ') });
   }
-  const img = readImage(file, hdu.index, { float32: true });
-  return { path, hdu: hdu.index, header: inheritedHeader(file, hdu), width: img.width, height: img.height, data: img.data as Float32Array };
+  const img = readUnsigned16(file, hdu.index) ?? readImage(file, hdu.index, { float32: true });
+  return { path, hdu: hdu.index, header: inheritedHeader(file, hdu), width: img.width, height: img.height, data: img.data as Uint16Array | Float32Array };
 }

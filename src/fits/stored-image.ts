@@ -7,6 +7,7 @@
 import { InputError } from '../errors.js';
 import { hduAt } from './image.js';
 import type { FitsFile } from './types.js';
+import { decodeUnsigned16 } from './unsigned16.js';
 
 const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
 
@@ -16,8 +17,8 @@ interface Stored<T> {
   data: T;
 }
 
-/** The 2-D image at `index` with the BITPIX and BZERO it must have; the data bytes copied into `out`'s buffer. */
-function storedBytes<T extends Float32Array | Uint16Array>(file: FitsFile, index: number, bitpix: number, bzero: number, make: (n: number) => T): Stored<T> {
+/** The 2-D image at `index` with the BITPIX and BZERO it must have; `decode` turns its data bytes into values. */
+function storedImage<T extends Float32Array | Uint16Array>(file: FitsFile, index: number, bitpix: number, bzero: number, decode: (bytes: Uint8Array, offset: number, n: number) => T): Stored<T> {
   const hdu = hduAt(file, index);
   const h = hdu.header;
   const place = { file: file.source, hdu: index };
@@ -26,25 +27,25 @@ function storedBytes<T extends Float32Array | Uint16Array>(file: FitsFile, index
   }
   const width = h.getNumber('NAXIS1')!;
   const height = h.getNumber('NAXIS2')!;
-  const data = make(width * height);
-  if (data.byteLength > hdu.dataLength) throw new InputError('fits.truncated', 'data unit is smaller than the image axes need', place, { expected: `${data.byteLength} bytes`, actual: `${hdu.dataLength} bytes` });
-  new Uint8Array(data.buffer).set(file.bytes.subarray(hdu.dataOffset, hdu.dataOffset + data.byteLength));
-  return { width, height, data };
+  const byteLength = width * height * (Math.abs(bitpix) / 8);
+  if (byteLength > hdu.dataLength) throw new InputError('fits.truncated', 'data unit is smaller than the image axes need', place, { expected: `${byteLength} bytes`, actual: `${hdu.dataLength} bytes` });
+  return { width, height, data: decode(file.bytes, hdu.dataOffset, width * height) };
+}
+
+/** Big-endian float32 values copied bit for bit. */
+function decodeFloat32(bytes: Uint8Array, offset: number, n: number): Float32Array {
+  const data = new Float32Array(n);
+  new Uint8Array(data.buffer).set(bytes.subarray(offset, offset + 4 * n));
+  if (LITTLE_ENDIAN) Buffer.from(data.buffer).swap32();
+  return data;
 }
 
 /** A BITPIX -32 image without scaling, every bit pattern kept (-0, NaN payloads). */
 export function storedFloat32(file: FitsFile, index: number): Stored<Float32Array> {
-  const img = storedBytes(file, index, -32, 0, (n) => new Float32Array(n));
-  if (LITTLE_ENDIAN) Buffer.from(img.data.buffer).swap32();
-  return img;
+  return storedImage(file, index, -32, 0, decodeFloat32);
 }
 
 /** A BITPIX 16, BZERO 32768 image as the unsigned values it stores. */
 export function storedUint16(file: FitsFile, index: number): Stored<Uint16Array> {
-  const img = storedBytes(file, index, 16, 32768, (n) => new Uint16Array(n));
-  if (LITTLE_ENDIAN) Buffer.from(img.data.buffer).swap16();
-  // stored = value - 32768 in two's complement: the same bits with the top one flipped
-  const d = img.data;
-  for (let i = 0; i < d.length; i++) d[i] = d[i]! ^ 0x8000;
-  return img;
+  return storedImage(file, index, 16, 32768, decodeUnsigned16);
 }

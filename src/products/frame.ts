@@ -5,7 +5,11 @@
 import type { Header } from '../fits/header.js';
 import type { Diagnostic } from '../diagnostics.js';
 
-/** A raw frame as read from disk: physical ADU (after BZERO/BSCALE), the whole frame with overscan. */
+/**
+ * A raw frame as read from disk: physical ADU (after BZERO/BSCALE), the whole frame with overscan.
+ * Unsigned 16-bit data (BZERO 32768, BSCALE 1) stay integers in a Uint16Array (exact, half the
+ * memory); other data are Float32.
+ */
 export interface RawFrame {
   /** Path as resolved from the manifest. */
   path: string;
@@ -14,7 +18,7 @@ export interface RawFrame {
   header: Header;
   width: number;
   height: number;
-  data: Float32Array;
+  data: Uint16Array | Float32Array;
 }
 
 /** A rectangular section in 0-based raw pixel coordinates, end-exclusive. */

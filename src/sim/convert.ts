@@ -5,14 +5,12 @@ import type { RawFrame } from '../products/frame.js';
 import type { SimFrame } from './simulate.js';
 
 /**
- * The RawFrame the FITS reader would return for this frame (physical ADU as Float32), without a
+ * The RawFrame the FITS reader would return for this frame (unsigned 16-bit ADU), without a
  * file: path = the frame's relative name, HDU 0; the header holds the frame's own cards only
  * (no structural keywords).
  */
 export function simFrameToRaw(frame: SimFrame): RawFrame {
-  const data = new Float32Array(frame.adu.length);
-  for (let i = 0; i < data.length; i++) data[i] = frame.adu[i]!;
-  return { path: frame.name, hdu: 0, header: frame.header.clone(), width: frame.width, height: frame.height, data };
+  return { path: frame.name, hdu: 0, header: frame.header.clone(), width: frame.width, height: frame.height, data: frame.adu.slice() };
 }
 
 /** The frame as a FITS file: one primary image, BITPIX 16 with BZERO 32768 (unsigned 16-bit), checksums. */

@@ -1,21 +1,39 @@
 /** loadRawFrame: the first 2-D image of a file, in physical ADU; fixtures written by astropy and fpack. */
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.js';
-import { Header, loadRawFrame, parseFits, readImage, writeFits } from '../../src/fits/index.js';
+import { Header, loadRawFrame, parseFits, readFitsFile, readImage, writeFits } from '../../src/fits/index.js';
+import { readUnsigned16 } from '../../src/fits/image.js';
 
 const DIR = join(import.meta.dirname, '../../fixtures/fits');
 const tmp = mkdtempSync(join(tmpdir(), 'whorl-raw-'));
+/** What astropy.io.fits reads from each fixture (made by fixtures/fits/make_fixtures.py). */
+const expected = JSON.parse(readFileSync(join(DIR, 'expected.json'), 'utf8')) as Record<string, { extname: string | null; data?: (number | null)[] }[]>;
 
 describe('loadRawFrame', () => {
-  it('reads the astropy uint16 frame with overscan into a Float32Array of ADU, header included', () => {
+  it('reads the astropy uint16 frame with overscan into a Uint16Array of the ADU astropy reads, header included', () => {
     const f = loadRawFrame(join(DIR, 'raw_frame.fits'));
     expect(f).toMatchObject({ hdu: 0, width: 72, height: 40 });
-    expect(f.data).toBeInstanceOf(Float32Array);
+    expect(f.data).toBeInstanceOf(Uint16Array);
+    expect(Array.from(f.data)).toEqual(expected['raw_frame.fits']![0]!.data);
     expect(f.data[10 * 72 + 20]).toBe(65535); // the saturated pixel make_fixtures.py set
     expect(f.header.getString('BIASSEC')).toBe('[65:72,1:40]');
+  });
+
+  it('keeps 16-bit data with BLANK pixels, or scaled otherwise, in a Float32Array of physical values (FITS Standard 4.0, 4.4.2.5 and 5.3)', () => {
+    const values = [7, 1, 32767, 32768, NaN, 65535];
+    const blanked = join(tmp, 'blank.fits');
+    writeFileSync(blanked, writeFits([{ kind: 'image', bitpix: 16, bzero: 32768, width: 3, height: 2, data: values }], { imageInPrimary: true }));
+    const b = loadRawFrame(blanked);
+    expect(b.data).toBeInstanceOf(Float32Array);
+    expect(Array.from(b.data)).toEqual(values);
+    const scaled = join(tmp, 'scaled.fits');
+    writeFileSync(scaled, writeFits([{ kind: 'image', bitpix: 16, bzero: 32768, bscale: 2, width: 3, height: 1, data: [2, 4, 65534] }], { imageInPrimary: true }));
+    const s = loadRawFrame(scaled);
+    expect(s.data).toBeInstanceOf(Float32Array);
+    expect(Array.from(s.data)).toEqual([2, 4, 65534]);
   });
 
   it('keeps nothing of the read buffer it reuses: a frame is unchanged after later, larger and smaller, frames are read', () => {
@@ -70,6 +88,23 @@ describe('loadRawFrame', () => {
     writeFileSync(path, writeFits([{ kind: 'bintable', name: 'T', columns: [{ name: 'A', format: 'J', values: [1] }] }]));
     expect(() => loadRawFrame(path)).toThrow(InputError);
     expect(() => loadRawFrame(path)).toThrow(/table\.fits: no HDU holds a 2-D image/);
+  });
+});
+
+describe('readUnsigned16', () => {
+  it("gives astropy's values of the BZERO 32768 image (91 pixels: an odd count) and nothing for any other image", () => {
+    const file = readFitsFile(join(DIR, 'images.fits'));
+    const want = expected['images.fits']!;
+    for (let i = 0; i < file.hdus.length; i++) {
+      const got = readUnsigned16(file, i);
+      if (file.hdus[i]!.name !== 'U16') {
+        expect(got, file.hdus[i]!.name).toBeUndefined();
+        continue;
+      }
+      expect([got!.width, got!.height]).toEqual([13, 7]);
+      expect(Array.from(got!.data)).toEqual(want.find((h) => h.extname === 'U16')!.data);
+      expect(Array.from(got!.data)).toEqual(Array.from(readImage(file, i).data));
+    }
   });
 });
 
