@@ -16,7 +16,7 @@ import { findBadColumns } from './bad-columns.js';
 import { calibrateExposure, type ExposureCalibration } from './exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { combineFlats, normaliseFlat } from './flat.js';
-import { trimFrame } from './overscan.js';
+import { overscanLevel, trimFrame, trimWithLevel } from './overscan.js';
 import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 export interface CalibrationFrames {
@@ -40,13 +40,15 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
       log.warn('gain-differs', `GAIN ${d.gain} differs from ${det.gain} of ${first.path}; using ${det.gain}`, { place: { file: f.path } });
     }
   }
-  // Frames are trimmed one kind at a time and dropped once combined, to keep memory low.
-  const arcTrim = frames.arc.map((f) => trimFrame(f, det, settings.overscanOrder));
-  const tw = arcTrim[0]!.width;
-  const th = arcTrim[0]!.height;
-  const overscanModel = arcTrim[0]!.overscanModel;
+  // Frames are trimmed one kind at a time and dropped once combined, to keep memory low; the arcs
+  // are trimmed last, into the flats' buffers (fresh full frames cost page faults). The first
+  // arc's overscan is measured here, so the diagnostics keep their order.
+  const tw = det.data.x1 - det.data.x0;
+  const th = det.data.y1 - det.data.y0;
+  const arcLevel = overscanLevel(frames.arc[0]!, det, settings.overscanOrder);
+  const overscanModel = arcLevel.model;
   if (!det.overscan) log.info('no-overscan', 'no overscan section (BIASSEC): the bias level comes from the bias frames alone');
-  else log.info('overscan', `overscan fitted along raw ${arcTrim[0]!.overscanAlong} (Legendre order ${settings.overscanOrder}), RMS ${arcTrim[0]!.overscanRmsAdu.toFixed(3)} ADU about the fit`, { place: { file: frames.arc[0]!.path }, actual: arcTrim[0]!.overscanRmsAdu });
+  else log.info('overscan', `overscan fitted along raw ${arcLevel.along} (Legendre order ${settings.overscanOrder}), RMS ${arcLevel.rms.toFixed(3)} ADU about the fit`, { place: { file: frames.arc[0]!.path }, actual: arcLevel.rms });
 
   for (const f of frames.bias) {
     const t = f.header.getNumber('EXPTIME');
@@ -60,6 +62,14 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     return data;
   };
 
+  const flatsMinusBias = frames.flat.map((f) => minusBias(trimFrame(f, det, settings.overscanOrder, false).data));
+  const combinedFlat = flatsMinusBias.length > 0 ? combineFlats(flatsMinusBias, det.gain, det.readNoiseE, settings) : null;
+  // The combination consumed the flats: their buffers are dead (unless the result shares one).
+  const spare = combinedFlat ? unshared(flatsMinusBias, [combinedFlat.data]) : [];
+  flatsMinusBias.length = 0;
+  if (combinedFlat) checkFlatLit(combinedFlat.data, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
+
+  const arcTrim = [trimWithLevel(frames.arc[0]!, det, arcLevel, true, { data: spare.pop() })];
   const evidence = dispersionAxisFromArc(arcTrim[0]!.data, bias.data, tw, th);
   const clear = evidence.ratio >= CLEAR_AXIS_RATIO || evidence.ratio <= 1 / CLEAR_AXIS_RATIO;
   let axis = settings.dispersionAxis === 'auto' ? evidence.axis : settings.dispersionAxis;
@@ -71,10 +81,6 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   axis = axis === 'y' ? 'y' : 'x';
   const orientation = { transpose: axis === 'y', flipX: false };
 
-  const flatsMinusBias = frames.flat.map((f) => minusBias(trimFrame(f, det, settings.overscanOrder, false).data));
-  const combinedFlat = flatsMinusBias.length > 0 ? combineFlats(flatsMinusBias, det.gain, det.readNoiseE, settings) : null;
-  flatsMinusBias.length = 0;
-  if (combinedFlat) checkFlatLit(combinedFlat.data, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
   const bad = findBadColumns(bias.count > 0 ? bias.data : null, combinedFlat?.data ?? null, tw, th, det.readNoiseE / det.gain, settings.badColumnSigma);
   const badRaw = new Uint16Array(tw * th);
   for (const x of bad.columns) for (let y = 0; y < th; y++) badRaw[y * tw + x] = MASK_BITS.badColumn;
@@ -93,8 +99,10 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   let masterFlat: Float32Array;
   let flatVariance: Float32Array;
   let flatMask: Uint16Array;
+  let combinedInternal: Float32Array | null = null;
   if (combinedFlat) {
-    const normalised = normaliseFlat(internal(combinedFlat.data), width, height, badInternal.data, {
+    combinedInternal = internal(combinedFlat.data);
+    const normalised = normaliseFlat(combinedInternal, width, height, badInternal.data, {
       gain: det.gain, readNoiseE: det.readNoiseE, biasVarianceAdu: bias.varianceAdu, count: combinedFlat.count,
     }, settings, same ? bad.flatColumnMedians ?? undefined : undefined);
     ({ flat: masterFlat, variance: flatVariance, mask: flatMask } = normalised);
@@ -108,13 +116,18 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     flatVariance = new Float32Array(width * height);
     flatMask = badInternal.data;
   }
+  // Dead now, unless a product shares their memory: the combined flat and the bad-column images.
+  const live = [masterBias, masterFlat, flatVariance, flatMask, arcTrim[0]!.data, arcTrim[0]!.mask];
+  const spareData = unshared([...spare, ...(combinedFlat ? [combinedFlat.data] : []), ...(combinedInternal ? [combinedInternal] : [])], live);
+  const spareMask = unshared([badRaw, badInternal.data], live);
+  for (const f of frames.arc.slice(1)) arcTrim.push(trimFrame(f, det, settings.overscanOrder, true, { data: spareData.pop(), mask: spareMask.pop() }));
 
   const exposureCal: ExposureCalibration = {
     orientation, width, height, gain: det.gain, readNoiseE: det.readNoiseE,
     masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask,
   };
   const arcInfos = frames.arc.map((f) => exposureInfo(f, false));
-  const arcExposures = arcTrim.map((t) => calibrateExposure(t, exposureCal));
+  const arcExposures = arcTrim.map((t) => calibrateExposure(t, exposureCal, spareData.pop()));
   const arcCombined = combineExposures(arcExposures, arcInfos.map((e) => e.exptimeS), exposureCal, settings);
   if (arcCombined.hits > 0) log.info('arc-cosmic-rays', `${arcCombined.hits} cosmic-ray pixel(s) rejected in the arc combination`, { actual: arcCombined.hits });
   const arc: CalibratedFrame = {
@@ -129,6 +142,13 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     badColumns: bad.columns, reference, overscanModel, axisRatio: evidence.ratio,
   };
   return { product, diagnostics: log.items };
+}
+
+/** The arrays of `candidates` (each once) that share memory with none of `live`: writing them changes no product. */
+function unshared<T extends Float32Array | Uint16Array>(candidates: T[], live: (Float32Array | Uint16Array)[]): T[] {
+  const out: T[] = [];
+  for (const c of candidates) if (!live.some((l) => l.buffer === c.buffer) && !out.some((o) => o.buffer === c.buffer)) out.push(c);
+  return out;
 }
 
 /** A lamp flat well exposed over most of the detector: median above this many read-noise sigmas (common practice: flats hold thousands of ADU). */

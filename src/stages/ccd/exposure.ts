@@ -25,9 +25,11 @@ export interface CalibratedExposure {
  * var = (g max(raw - bias, 0) + RN^2) / F^2, in e^2: the noise of this exposure alone (Poisson on
  * the detected electrons before the flat, and read noise). The errors of the master bias and
  * flat are the same in every exposure, so the combination adds them once (combine-exposures.ts).
+ * `trimmed` is consumed: in the usual orientation its arrays become the product, otherwise its
+ * data array (dead once oriented) takes the variance. `varianceInto`: an array of the frame's size
+ * whose values nobody reads any more, for the variance in the usual orientation (else a new one).
  */
-export function calibrateExposure(trimmed: TrimmedFrame, cal: ExposureCalibration): CalibratedExposure {
-  // `trimmed` is consumed: in the usual orientation its arrays become the product (no copies on full frames).
+export function calibrateExposure(trimmed: TrimmedFrame, cal: ExposureCalibration, varianceInto?: Float32Array): CalibratedExposure {
   const same = !cal.orientation.transpose && !cal.orientation.flipX;
   const o = same ? trimmed : toInternal(trimmed.data, trimmed.width, trimmed.height, cal.orientation);
   const m = same ? { data: trimmed.mask } : toInternal(trimmed.mask, trimmed.width, trimmed.height, cal.orientation);
@@ -36,7 +38,8 @@ export function calibrateExposure(trimmed: TrimmedFrame, cal: ExposureCalibratio
   }
   const n = cal.width * cal.height;
   const sci = o.data; // reused in place: the oriented copy (or the consumed trimmed frame) is ours
-  const variance = new Float32Array(n);
+  const variance = !same ? trimmed.data : varianceInto ?? new Float32Array(n);
+  if (variance.length !== n || variance.buffer === sci.buffer) throw new RangeError(`calibrateExposure: a variance buffer of ${variance.length} values for ${n} pixels, or the frame's own`);
   const mask = m.data;
   const g = cal.gain;
   const rn2 = cal.readNoiseE * cal.readNoiseE;

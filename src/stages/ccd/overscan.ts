@@ -25,14 +25,29 @@ export interface TrimmedFrame {
   overscanAlong: 'y' | 'x' | null;
 }
 
+/**
+ * Arrays of the trimmed size whose values nobody reads any more, for a trimmed frame to be written
+ * into instead of new ones (each new full frame costs fresh memory pages); every value is overwritten.
+ */
+export interface TrimBuffers {
+  data?: Float32Array;
+  mask?: Uint16Array;
+}
+
 /** `withMask` false leaves `mask` empty (bias frames: saturation is not looked at). */
-export function trimFrame(frame: RawFrame, det: Detector, overscanOrder: number, withMask = true): TrimmedFrame {
+export function trimFrame(frame: RawFrame, det: Detector, overscanOrder: number, withMask = true, reuse: TrimBuffers = {}): TrimmedFrame {
+  return trimWithLevel(frame, det, overscanLevel(frame, det, overscanOrder), withMask, reuse);
+}
+
+/** trimFrame with the overscan `level` of `frame` already measured. */
+export function trimWithLevel(frame: RawFrame, det: Detector, level: OverscanLevel, withMask: boolean, reuse: TrimBuffers = {}): TrimmedFrame {
   const { data: s } = det;
   const width = s.x1 - s.x0;
   const height = s.y1 - s.y0;
-  const out = new Float32Array(width * height);
-  const mask = new Uint16Array(withMask ? width * height : 0);
-  const level = overscanLevel(frame, det, overscanOrder);
+  const n = width * height;
+  const out = reuse.data ?? new Float32Array(n);
+  const mask = withMask ? (reuse.mask?.fill(0) ?? new Uint16Array(n)) : new Uint16Array(0);
+  if (out.length !== n || mask.length !== (withMask ? n : 0)) throw new RangeError(`trimFrame: buffers of ${out.length} and ${mask.length} values for a ${width} x ${height} frame`);
   trimLines(frame, det, level, 0, height, out, withMask ? mask : null);
   return { width, height, data: out, mask, overscanModel: level.model, overscanRmsAdu: level.rms, overscanAlong: level.along };
 }

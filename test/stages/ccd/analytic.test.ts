@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { buildCalibration } from '../../../src/stages/ccd/build-calibration.js';
 import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
 import { trimFrame } from '../../../src/stages/ccd/overscan.js';
+import { calibrateExposure } from '../../../src/stages/ccd/exposure.js';
 import { resolveDetector } from '../../../src/stages/ccd/detector.js';
 import { DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
 import { MASK_BITS, type RawFrame } from '../../../src/products/frame.js';
@@ -35,6 +36,32 @@ describe('overscan', () => {
     expect(t.data[0]).toBeCloseTo(10, 3);
     expect(t.mask[5 * t.width + 0]).toBe(MASK_BITS.saturated);
     expect(t.mask[4 * t.width + 0]).toBe(0);
+  });
+});
+
+describe('buffers handed to the trimming and the exposure', () => {
+  it('are overwritten in full: values left from another frame do not show (a ramp again, masks only where saturated)', () => {
+    const frame = syntheticFrame('raw/s.fits', (x, y) => (x === 3 && y === 4 ? 70000 : x + 100 * y), { biasLevel: 412.5, biasSlope: 0.37 });
+    const det = resolveDetector(frame, { ...settings, saturationAdu: 65535 });
+    const t = trimFrame(frame, det, 3, true, { data: new Float32Array(40 * 30).fill(NaN), mask: new Uint16Array(40 * 30).fill(0xffff) });
+    for (const [x, y] of [[0, 0], [39, 29], [17, 11]] as const) expect(t.data[y * 40 + x]).toBeCloseTo(x + 100 * y, 2);
+    expect(t.mask[4 * 40 + 3]).toBe(MASK_BITS.saturated);
+    expect(t.mask.reduce((a, m) => a + m, 0)).toBe(MASK_BITS.saturated);
+    expect(() => trimFrame(frame, det, 3, true, { data: new Float32Array(10) })).toThrow(RangeError);
+  });
+  it('variance of one exposure: g max(raw - bias, 0) + RN^2 over F^2, electrons^2 (Poisson counts plus read noise as in the CCD equation, Howell, Handbook of CCD Astronomy, ch. 4; through the flat as 1 / F^2)', () => {
+    const frame = syntheticFrame('raw/s.fits', (x) => (x < 20 ? 50 * x : -3), { biasLevel: 300 });
+    const n = 40 * 30;
+    const cal = {
+      orientation: { transpose: false, flipX: false }, width: 40, height: 30, gain: 2, readNoiseE: 5, biasVarianceAdu: 0,
+      masterBias: new Float32Array(n), masterFlat: new Float32Array(n).fill(0.5), flatVariance: new Float32Array(n), flatMask: new Uint16Array(n),
+    };
+    const e = calibrateExposure(trimFrame(frame, resolveDetector(frame, settings), 3), cal, new Float32Array(n).fill(NaN));
+    for (const x of [0, 7, 19, 20, 39]) {
+      const adu = x < 20 ? 50 * x : -3;
+      expect(e.sci[5 * 40 + x]).toBeCloseTo((2 * adu) / 0.5, 2);
+      expect(e.var[5 * 40 + x]).toBeCloseTo((2 * Math.max(adu, 0) + 25) / 0.25, 1);
+    }
   });
 });
 

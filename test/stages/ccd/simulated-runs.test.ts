@@ -6,6 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { calibratedRun } from './sim-run.js';
 import { expectedSum, grownSet, hitPixels, lineCorePixels } from './truth-pixels.js';
+import { buildCalibration } from '../../../src/stages/ccd/build-calibration.js';
 import { calibrateScience } from '../../../src/stages/ccd/calibrate-science.js';
 import { DEFAULT_CCD_SETTINGS } from '../../../src/stages/ccd/settings.js';
 import { normaliseFlat } from '../../../src/stages/ccd/flat.js';
@@ -125,6 +126,25 @@ for (const variant of ['standard', 'rotated'] as const) {
       expect(Math.abs(p.std - 1)).toBeLessThan(0.05);
       expect(Math.abs(p.mean)).toBeLessThan(0.1); // Poisson variance from the measured signal pulls low counts slightly low
       expect(combined.exptimeS).toBe(r.run.truth.targets[0]!.exposures.reduce((a, e) => a + e.exptimeS, 0));
+    });
+
+    it('calibrated arc (two exposures, written into the buffers of the combined flats): (sci - truth) / sqrt(VAR) has a standard deviation within 5% of 1', () => {
+      const arcs = r.run.frames.filter((f) => f.kind === 'arc').map((f) => f.name);
+      const p = pulls(r.cal.arc, expectedSum(r.run, arcs, r.cal), r.cal);
+      expect(p.count).toBeGreaterThan(0.9 * r.cal.width * r.cal.height);
+      expect(Math.abs(p.std - 1)).toBeLessThan(0.05);
+    });
+
+    it('leaves the raw frames as they were and hands out arrays that share no memory (buffers are reused only when dead)', () => {
+      const frames = { bias: r.byKind('bias'), flat: r.byKind('flat'), arc: r.byKind('arc') };
+      const all = [...frames.bias, ...frames.flat, ...frames.arc, ...science];
+      const before = all.map((f) => f.data.slice());
+      const cal = buildCalibration(frames, DEFAULT_CCD_SETTINGS).product;
+      const sci = calibrateScience(science, cal, DEFAULT_CCD_SETTINGS).product;
+      all.forEach((f, i) => expect(f.data).toEqual(before[i]));
+      const arrays = [cal.masterBias, cal.masterFlat, cal.flatVariance, cal.flatMask, cal.arc.sci, cal.arc.var, cal.arc.mask, cal.arc.rejected!, sci.sci, sci.var, sci.mask, sci.rejected!];
+      expect(new Set(arrays.map((a) => a.buffer)).size).toBe(arrays.length);
+      expect(Array.from(cal.arc.sci)).toEqual(Array.from(r.cal.arc.sci));
     });
 
     it('single exposure: (sci - truth) / sqrt(VAR) has a standard deviation within 5% of 1', () => {
