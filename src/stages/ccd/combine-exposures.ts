@@ -115,12 +115,29 @@ function markRejections(c: RejectionInput): number {
   // Sizes under which every term of the variance below is finite and >= 0 (see `floor`).
   const bounded = threshold < Infinity && k0 >= 0 && k0 < 1e50 && t.every((x) => x >= 1e-20 && x <= 1e20);
   let hits = 0;
+  // Up to three exposures read from locals, as in sumAll.
+  const few = nExp <= 3;
+  const [s0, s1, s2] = [scis[0]!, scis[Math.min(1, nExp - 1)]!, scis[Math.min(2, nExp - 1)]!];
   for (let p = 0; p < n; p++) {
     let sumV = 0;
-    for (let i = 0; i < nExp; i++) {
-      const v = scis[i]![p]!;
-      values[i] = v;
-      sumV += v;
+    if (few) {
+      const a = s0[p]!;
+      values[0] = a;
+      sumV += a;
+      const b = s1[p]!;
+      values[1] = b;
+      sumV += b;
+      if (nExp > 2) {
+        const c = s2[p]!;
+        values[2] = c;
+        sumV += c;
+      }
+    } else {
+      for (let i = 0; i < nExp; i++) {
+        const v = scis[i]![p]!;
+        values[i] = v;
+        sumV += v;
+      }
     }
     const f = flat[p]!;
     const constant = k0 / (f * f);
@@ -218,14 +235,36 @@ function sumAll(c: SumInput, from: number, to: number): number {
   const sumTAllSq = sumTAll * sumTAll;
   const biasScaleAll = (total * nExp) / sumTAll;
   const biasTermAll = biasScaleAll * biasScaleAll * biasE2;
+  // Up to three exposures (the usual arc and science sets) read from locals, not through the
+  // lists of arrays; the same sums in the same order.
+  const few = nExp <= 3;
+  const [s0, s1, s2] = [scis[0]!, scis[Math.min(1, nExp - 1)]!, scis[Math.min(2, nExp - 1)]!];
+  const [v0, v1, v2] = [vars[0]!, vars[Math.min(1, nExp - 1)]!, vars[Math.min(2, nExp - 1)]!];
+  const [m0, m1, m2] = [masks[0]!, masks[Math.min(1, nExp - 1)]!, masks[Math.min(2, nExp - 1)]!];
   for (let p = from; p < to; p++) {
     let flagsAll = 0;
     let sumVAll = 0;
     let sumVarAll = 0;
-    for (let i = 0; i < nExp; i++) {
-      flagsAll |= masks[i]![p]!;
-      sumVAll += scis[i]![p]!;
-      sumVarAll += vars[i]![p]!;
+    if (few) {
+      flagsAll |= m0[p]!;
+      sumVAll += s0[p]!;
+      sumVarAll += v0[p]!;
+      if (nExp > 1) {
+        flagsAll |= m1[p]!;
+        sumVAll += s1[p]!;
+        sumVarAll += v1[p]!;
+      }
+      if (nExp > 2) {
+        flagsAll |= m2[p]!;
+        sumVAll += s2[p]!;
+        sumVarAll += v2[p]!;
+      }
+    } else {
+      for (let i = 0; i < nExp; i++) {
+        flagsAll |= masks[i]![p]!;
+        sumVAll += scis[i]![p]!;
+        sumVarAll += vars[i]![p]!;
+      }
     }
     const value = (total * sumVAll) / sumTAll;
     const f = masterFlat[p]!;
