@@ -76,21 +76,12 @@ export function bucketSelect(buf: Float64Array | Float32Array, n: number, k: num
   if (!(hi > lo)) return lo;
   const scale = BUCKETS / (hi - lo);
   if (!Number.isFinite(scale) || !(scale > 0)) return selectInPlace(buf, n, k);
-  const counts = bucketCounts;
-  counts.fill(0);
-  for (let i = 0; i < n; i++) counts[Math.min(BUCKETS - 1, ((buf[i]! - lo) * scale) | 0)]++;
+  const counts = countBuckets(buf, n, lo, scale);
   let below = 0;
   let target = 0;
   while (below + counts[target]! <= k) below += counts[target++]!;
   // The target bucket's values to the front (it never holds them all: lo and hi fall in different buckets).
-  let m = 0;
-  for (let i = 0; i < n; i++) {
-    const v = buf[i]!;
-    if (Math.min(BUCKETS - 1, ((v - lo) * scale) | 0) === target) {
-      buf[i] = buf[m]!;
-      buf[m++] = v;
-    }
-  }
+  const m = bucketToFront(buf, n, lo, scale, target);
   return bucketSelect(buf, m, k - below);
 }
 
@@ -127,37 +118,69 @@ function adjacentRanks(buf: Float64Array | Float32Array, n: number, k: number, p
   const range = valueRange(buf, n);
   if (!range) return false;
   const [lo, scale] = range;
-  const counts = bucketCounts;
-  counts.fill(0);
-  for (let i = 0; i < n; i++) counts[Math.min(BUCKETS - 1, ((buf[i]! - lo) * scale) | 0)]++;
+  const counts = countBuckets(buf, n, lo, scale);
   let below = 0;
   let first = 0;
   while (below + counts[first]! <= k) below += counts[first++]!;
   if (below + counts[first]! > k + 1) {
     // Both ranks in one bucket (never all values: the lowest and highest fall in different buckets).
     if (gathered.length < counts[first]!) gathered = new Float64Array(Math.max(counts[first]!, 2 * gathered.length));
-    const work = gathered;
-    let m = 0;
-    for (let i = 0; i < n; i++) {
-      const v = buf[i]!;
-      if (Math.min(BUCKETS - 1, ((v - lo) * scale) | 0) === first) work[m++] = v;
-    }
-    ranksInPlace(work, m, k - below, pair);
+    const m = copyBucket(buf, n, lo, scale, first, gathered);
+    ranksInPlace(gathered, m, k - below, pair);
   } else {
     let next = first + 1;
     while (counts[next] === 0) next++;
-    let lower = -Infinity;
-    let upper = Infinity;
-    for (let i = 0; i < n; i++) {
-      const v = buf[i]!;
-      const b = Math.min(BUCKETS - 1, ((v - lo) * scale) | 0);
-      if (b === first && v > lower) lower = v;
-      if (b === next && v < upper) upper = v;
-    }
-    pair[0] = lower;
-    pair[1] = upper;
+    bucketEdges(buf, n, lo, scale, first, next, pair);
   }
   return true;
+}
+
+// The bucket passes, each a function of one loop: V8 compiles them once, where loops after a
+// long one in the same function sent bucketSelect and adjacentRanks back to the interpreter.
+
+/** bucketCounts = the number of values of buf[0..n) in each bucket of [lo, lo + BUCKETS / scale]. */
+function countBuckets(buf: Float64Array | Float32Array, n: number, lo: number, scale: number): Int32Array {
+  const counts = bucketCounts;
+  counts.fill(0);
+  for (let i = 0; i < n; i++) counts[Math.min(BUCKETS - 1, ((buf[i]! - lo) * scale) | 0)]++;
+  return counts;
+}
+
+/** The values of bucket `target` to the front of buf[0..n) (swapped, in order of index); returns their number. */
+function bucketToFront(buf: Float64Array | Float32Array, n: number, lo: number, scale: number, target: number): number {
+  let m = 0;
+  for (let i = 0; i < n; i++) {
+    const v = buf[i]!;
+    if (Math.min(BUCKETS - 1, ((v - lo) * scale) | 0) === target) {
+      buf[i] = buf[m]!;
+      buf[m++] = v;
+    }
+  }
+  return m;
+}
+
+/** The values of bucket `target` of buf[0..n) copied into work (in order of index); returns their number. */
+function copyBucket(buf: Float64Array | Float32Array, n: number, lo: number, scale: number, target: number, work: Float64Array): number {
+  let m = 0;
+  for (let i = 0; i < n; i++) {
+    const v = buf[i]!;
+    if (Math.min(BUCKETS - 1, ((v - lo) * scale) | 0) === target) work[m++] = v;
+  }
+  return m;
+}
+
+/** pair = [largest value of bucket `first`, smallest of bucket `next`] of buf[0..n). */
+function bucketEdges(buf: Float64Array | Float32Array, n: number, lo: number, scale: number, first: number, next: number, pair: Float64Array): void {
+  let lower = -Infinity;
+  let upper = Infinity;
+  for (let i = 0; i < n; i++) {
+    const v = buf[i]!;
+    const b = Math.min(BUCKETS - 1, ((v - lo) * scale) | 0);
+    if (b === first && v > lower) lower = v;
+    if (b === next && v < upper) upper = v;
+  }
+  pair[0] = lower;
+  pair[1] = upper;
 }
 
 /** [minimum, BUCKETS / (max - min)] of buf[0..n), or null when the values cannot be bucketed. */

@@ -57,17 +57,38 @@ export function columnMedians(image: Float32Array, width: number, height: number
   const counts = new Int32Array(COLUMN_BLOCK);
   for (let x0 = 0; x0 < width; x0 += COLUMN_BLOCK) {
     const nb = Math.min(COLUMN_BLOCK, width - x0);
-    counts.fill(0);
-    for (let y = 0; y < height; y++) {
-      const from = y * width + x0;
-      for (let c = 0; c < nb; c++) {
-        const v = image[from + c]!;
-        if (v === v) block[c * height + counts[c]!++] = v;
-      }
-    }
+    // A block without NaN (the usual case) is copied without the per-column counters.
+    if (copyBlock(image, width, height, x0, nb, block)) counts.fill(height);
+    else copyFiniteBlock(image, width, height, x0, nb, block, counts);
     for (let c = 0; c < nb; c++) out[x0 + c] = medianOfBuffer(block.subarray(c * height, (c + 1) * height), counts[c]!);
   }
   return out;
+}
+
+/** Columns x0 .. x0 + nb - 1 into block (column c at c * height, in order of y); false when any value is NaN. */
+function copyBlock(image: Float32Array, width: number, height: number, x0: number, nb: number, block: Float64Array): boolean {
+  let finite = 1;
+  for (let y = 0; y < height; y++) {
+    const from = y * width + x0;
+    for (let c = 0; c < nb; c++) {
+      const v = image[from + c]!;
+      block[c * height + y] = v;
+      finite &= +(v === v);
+    }
+  }
+  return finite === 1;
+}
+
+/** As copyBlock, only the finite values of each column (their number into counts). */
+function copyFiniteBlock(image: Float32Array, width: number, height: number, x0: number, nb: number, block: Float64Array, counts: Int32Array): void {
+  counts.fill(0);
+  for (let y = 0; y < height; y++) {
+    const from = y * width + x0;
+    for (let c = 0; c < nb; c++) {
+      const v = image[from + c]!;
+      if (v === v) block[c * height + counts[c]!++] = v;
+    }
+  }
 }
 
 /** Each value minus (or over, when `ratio`) the median of its neighbours within NEIGHBOURS, itself left out. */

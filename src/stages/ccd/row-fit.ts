@@ -65,17 +65,34 @@ export class RowLegendreFitter {
    * leaves `model` alone) when fewer than 2 (order + 1) points are usable.
    */
   fit(row: ArrayLike<number>, usable: Uint8Array, model: Float32Array, options: RowFitOptions): boolean {
-    const { width, nc, normal, kept, residual } = this;
+    const { width, nc, kept, residual, trial } = this;
     const minKept = nc + 1;
-    let count = 0;
-    for (let x = 0; x < width; x++) count += usable[x]!;
+    let count = countOnes(usable, width);
     if (count < 2 * nc) return false;
     this.startNormal(usable);
-    // Right-hand side by basis function (the same sums, in the same order, as per point).
-    // Unusable points enter as exact zeros (adding 0 changes no sum), which keeps the loop branch-free.
     kept.set(usable);
-    const masked = this.maskedRow;
-    for (let x = 0; x < width; x++) masked[x] = usable[x] ? row[x]! : 0;
+    // Unusable points enter the right-hand side as exact zeros (adding 0 changes no sum), which keeps its loop branch-free.
+    maskRow(row, usable, this.maskedRow, width);
+    this.startRhs();
+    // Each pass over x is a function or method of its own, so V8 compiles this one once.
+    for (let iter = 0; ; iter++) {
+      if (!this.solve()) return false;
+      const chi2 = this.residuals(row);
+      if (iter >= options.maxIterations || !(chi2 > 0)) break;
+      // The new kept set into `trial`, applied only when it holds enough points.
+      const next = proposeKept(usable, residual, options.clipSigma * Math.sqrt(chi2 / count), trial, width);
+      if (next < minKept) break;
+      const changed = this.applyTrial(row);
+      count = next;
+      if (!changed) break;
+    }
+    modelFromResidual(row, residual, model, width);
+    return true;
+  }
+
+  /** Right-hand side by basis function from maskedRow (the same sums, in the same order, as per point). */
+  private startRhs(): void {
+    const { width, nc, maskedRow: masked } = this;
     // Four sums per pass over x: independent chains the processor overlaps (each still in order of x).
     for (let k = 0; k < nc; k += 4) {
       const [d0, d1, d2, d3] = this.columns(k);
@@ -93,35 +110,22 @@ export class RowLegendreFitter {
       const sums = [s0, s1, s2, s3];
       for (let j = 0; j < 4 && k + j < nc; j++) this.rhs[k + j] = sums[j]!;
     }
-    for (let iter = 0; ; iter++) {
-      if (!this.solve()) return false;
-      const chi2 = this.residuals(row);
-      if (iter >= options.maxIterations || !(chi2 > 0)) break;
-      const limit = options.clipSigma * Math.sqrt(chi2 / count);
-      // The new kept set into `trial`, applied only when it holds enough points.
-      const trial = this.trial;
-      let next = 0;
-      for (let x = 0; x < width; x++) {
-        const keep = usable[x] && Math.abs(residual[x]!) <= limit ? 1 : 0;
-        trial[x] = keep;
-        next += keep;
-      }
-      if (next < minKept) break;
-      let changed = false;
-      for (let x = 0; x < width; x++) {
-        const keep = trial[x]!;
-        if (keep === kept[x]) continue;
-        changed = true;
-        const sign = keep ? 1 : -1;
-        this.accumulate(normal, x, sign);
-        this.addRhs(row[x]!, x, sign);
-        kept[x] = keep;
-      }
-      count = next;
-      if (!changed) break;
+  }
+
+  /** kept = trial, the normal matrix and right-hand side updated point by point; false when nothing changed. */
+  private applyTrial(row: ArrayLike<number>): boolean {
+    const { width, normal, kept, trial } = this;
+    let changed = false;
+    for (let x = 0; x < width; x++) {
+      const keep = trial[x]!;
+      if (keep === kept[x]) continue;
+      changed = true;
+      const sign = keep ? 1 : -1;
+      this.accumulate(normal, x, sign);
+      this.addRhs(row[x]!, x, sign);
+      kept[x] = keep;
     }
-    for (let x = 0; x < width; x++) model[x] = row[x]! - residual[x]!;
-    return true;
+    return changed;
   }
 
   /**
@@ -197,4 +201,30 @@ export class RowLegendreFitter {
     choleskySolve(work, nc, this.coeffs);
     return true;
   }
+}
+
+function countOnes(flags: Uint8Array, width: number): number {
+  let count = 0;
+  for (let x = 0; x < width; x++) count += flags[x]!;
+  return count;
+}
+
+/** masked = row where usable, exact 0 elsewhere. */
+function maskRow(row: ArrayLike<number>, usable: Uint8Array, masked: Float64Array, width: number): void {
+  for (let x = 0; x < width; x++) masked[x] = usable[x] ? row[x]! : 0;
+}
+
+/** trial = usable points with |residual| <= limit; returns their number. */
+function proposeKept(usable: Uint8Array, residual: Float64Array, limit: number, trial: Uint8Array, width: number): number {
+  let next = 0;
+  for (let x = 0; x < width; x++) {
+    const keep = usable[x] && Math.abs(residual[x]!) <= limit ? 1 : 0;
+    trial[x] = keep;
+    next += keep;
+  }
+  return next;
+}
+
+function modelFromResidual(row: ArrayLike<number>, residual: Float64Array, model: Float32Array, width: number): void {
+  for (let x = 0; x < width; x++) model[x] = row[x]! - residual[x]!;
 }
