@@ -66,13 +66,9 @@ const bucketCounts = new Int32Array(BUCKETS);
  */
 export function bucketSelect(buf: Float64Array | Float32Array, n: number, k: number): number {
   if (n < BUCKET_MIN) return selectInPlace(buf, n, k);
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const v = buf[i]!;
-    if (v < lo) lo = v;
-    if (v > hi) hi = v;
-  }
+  minMax(buf, n, extremes);
+  const lo = extremes[0]!;
+  const hi = extremes[1]!;
   if (!(hi > lo)) return lo;
   const scale = BUCKETS / (hi - lo);
   if (!Number.isFinite(scale) || !(scale > 0)) return selectInPlace(buf, n, k);
@@ -183,8 +179,10 @@ function bucketEdges(buf: Float64Array | Float32Array, n: number, lo: number, sc
   pair[1] = upper;
 }
 
-/** [minimum, BUCKETS / (max - min)] of buf[0..n), or null when the values cannot be bucketed. */
-function valueRange(buf: Float64Array | Float32Array, n: number): [number, number] | null {
+const extremes = new Float64Array(2);
+
+/** out = [minimum, maximum] of buf[0..n) (the first of equal extremes, as `<` and `>` find them). */
+function minMax(buf: Float64Array | Float32Array, n: number, out: Float64Array): void {
   let lo = Infinity;
   let hi = -Infinity;
   for (let i = 0; i < n; i++) {
@@ -192,6 +190,15 @@ function valueRange(buf: Float64Array | Float32Array, n: number): [number, numbe
     if (v < lo) lo = v;
     if (v > hi) hi = v;
   }
+  out[0] = lo;
+  out[1] = hi;
+}
+
+/** [minimum, BUCKETS / (max - min)] of buf[0..n), or null when the values cannot be bucketed. */
+function valueRange(buf: Float64Array | Float32Array, n: number): [number, number] | null {
+  minMax(buf, n, extremes);
+  const lo = extremes[0]!;
+  const hi = extremes[1]!;
   const scale = BUCKETS / (hi - lo);
   return hi > lo && Number.isFinite(scale) && scale > 0 ? [lo, scale] : null;
 }
