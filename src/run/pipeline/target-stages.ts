@@ -75,7 +75,8 @@ export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: St
 function skySubtractedScience(job: TargetJob, cal: SetupCalibration, settings: TargetStageSettings, timer: StageTimer) {
   const science = calibratedScience(job, cal, settings, timer);
   const solution = timer.stage(TARGET_STAGES[2], () => measureFlexure(science, cal.solution, skyLines(), settings.flexure));
-  const sky = timer.stage(TARGET_STAGES[3], () => subtractSky(science, solution, settings.sky));
+  // Nothing reads the frame before sky subtraction after this stage: its variance array takes the result.
+  const sky = timer.stage(TARGET_STAGES[3], () => subtractSky(science, solution, settings.sky, science.var));
   return { solution, sky };
 }
 

@@ -29,7 +29,13 @@ const EMISSION_ROUNDS = 2;
 /** Mask bits that keep a pixel out of the sky fit and, after it, out of the line fits (every bit: all of them spoil a spectrum). */
 export const BAD_PIXEL_BITS = MASK_BITS.saturated | MASK_BITS.badColumn | MASK_BITS.cosmicRay | MASK_BITS.zeroFlat | MASK_BITS.outsideData;
 
-export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution, settings: SkySettings): StageResult<{ frame: CalibratedFrame; sky: SkyModel }> {
+/**
+ * `spareVariance`, when given, is a full-size buffer the caller no longer needs (the input frame's
+ * own variance when the caller drops that frame): the output variance is written into it, which
+ * saves the fresh pages of a new 32 MB array. Each pixel is read before it is overwritten, so it
+ * may be frame.var itself; it must not be any other array of the input.
+ */
+export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution, settings: SkySettings, spareVariance?: Float32Array): StageResult<{ frame: CalibratedFrame; sky: SkyModel }> {
   // The pixel loops are functions of their own: each is compiled once, small, where a loop in
   // this long function would have the whole function compiled again on the fly at each loop.
   const { width, height } = frame;
@@ -38,6 +44,7 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const wave = solution.wave;
   requireSameGrid(frame, solution);
   checkSettings(settings);
+  if (spareVariance !== undefined) checkSpare(frame, spareVariance);
   const log = new DiagnosticLog('sky');
   const { good, rowUsable } = goodPixels(frame);
   const scratch = new Float64Array(width);
@@ -99,9 +106,9 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   if (masked > 0) log.info('sky-emission', `${masked} sky-row pixels with faint line emission left out of the sky fit`, { actual: masked });
 
   // 4. Subtract; variance grows by the model's own. The residual image is done with: its array
-  // takes the result (one full-size allocation fewer).
+  // takes the result (one full-size allocation fewer). inVar is not read after this.
   const sci = residual;
-  const variance = new Float32Array(width * height);
+  const variance = spareVariance ?? new Float32Array(width * height);
   subtractModelWithVariance(model, wave, inSci, inVar, width, sci, variance);
   const residualNormRms = normalisedResidual(width, height, sci, variance, good, emissionPixels, skyRows);
   const centreRow = Math.round((galaxyRegion[0] + galaxyRegion[1]) / 2);
@@ -139,6 +146,12 @@ function goodPixels(frame: CalibratedFrame): { good: Uint8Array; rowUsable: Uint
     rowUsable[y] = n >= width / 2 ? 1 : 0;
   }
   return { good, rowUsable };
+}
+
+/** A spare buffer of the wrong size, or one of the input's other arrays, is a programming error. */
+function checkSpare(frame: CalibratedFrame, spare: Float32Array): void {
+  if (spare.length !== frame.width * frame.height) throw new RangeError(`subtractSky: spare variance has ${spare.length} values for a ${frame.width}x${frame.height} frame`);
+  if (spare.buffer === frame.sci.buffer || spare.buffer === frame.mask.buffer) throw new RangeError('subtractSky: the spare variance shares memory with the frame\'s SCI or MASK');
 }
 
 function checkSettings(s: SkySettings): void {

@@ -119,3 +119,39 @@ describe('subtractSky settings', () => {
     expect(() => subtractSky(frame, solution, { ...DEFAULT_SKY_SETTINGS, detectSigma: 0 })).toThrow(/sky setting detectSigma/);
   });
 });
+
+describe('subtractSky with a spare variance buffer', () => {
+  // The spare path must give the very products of the plain one: the same pixels, bit for bit,
+  // whatever the spare held before, and the other inputs untouched.
+  const { frame, solution } = makeSyntheticFrame({ seed: 7 });
+  const plain = subtractSky(frame, solution, DEFAULT_SKY_SETTINGS).product;
+  const copy = (f: typeof frame) => ({ ...f, sci: f.sci.slice(), var: f.var.slice(), mask: f.mask.slice() });
+
+  it('writes the same variance into a spare full of garbage, overwriting every pixel', () => {
+    const spare = new Float32Array(frame.width * frame.height).fill(NaN);
+    const input = copy(frame);
+    const r = subtractSky(input, solution, DEFAULT_SKY_SETTINGS, spare).product;
+    expect(r.frame.var).toBe(spare);
+    expect(Buffer.from(spare.buffer).equals(Buffer.from(plain.frame.var.buffer))).toBe(true);
+    expect(Buffer.from(r.frame.sci.buffer).equals(Buffer.from(plain.frame.sci.buffer))).toBe(true);
+    for (const k of ['sci', 'var', 'mask'] as const) expect(Buffer.from(input[k].buffer).equals(Buffer.from(frame[k].buffer))).toBe(true);
+  });
+
+  it('may take the frame\'s own variance, in place, with the same products and SCI and MASK untouched', () => {
+    const input = copy(frame);
+    const r = subtractSky(input, solution, DEFAULT_SKY_SETTINGS, input.var).product;
+    expect(r.frame.var).toBe(input.var);
+    expect(Buffer.from(r.frame.var.buffer).equals(Buffer.from(plain.frame.var.buffer))).toBe(true);
+    expect(Buffer.from(r.frame.sci.buffer).equals(Buffer.from(plain.frame.sci.buffer))).toBe(true);
+    expect(r.frame.sci.buffer).not.toBe(input.sci.buffer);
+    expect(Buffer.from(input.sci.buffer).equals(Buffer.from(frame.sci.buffer))).toBe(true);
+    expect(Buffer.from(input.mask.buffer).equals(Buffer.from(frame.mask.buffer))).toBe(true);
+    expect(r.sky).toEqual(plain.sky);
+  });
+
+  it('refuses a spare of the wrong size or one sharing the frame\'s SCI', () => {
+    expect(() => subtractSky(copy(frame), solution, DEFAULT_SKY_SETTINGS, new Float32Array(3))).toThrow(RangeError);
+    const input = copy(frame);
+    expect(() => subtractSky(input, solution, DEFAULT_SKY_SETTINGS, input.sci)).toThrow(RangeError);
+  });
+});
