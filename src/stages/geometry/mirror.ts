@@ -14,8 +14,22 @@ export interface PvSamples {
   e: Float64Array;
   /** Half-width (rows) of the mirror's smoothing kernel; see pvSamples(). */
   kernelRows: number;
-  /** Scratch of interpolate(), one per point: the weights of its first pass, reused by its second. */
+  /** Scratch of kernelAt(), one per point: the weights of its first pass, reused by its second. */
   weights: Float64Array;
+  /** Scratch of forEachMirror: one equivalent kernel at a time. */
+  kernel: Kernel;
+}
+
+/** An equivalent kernel: the curve at a row is sum_j l[j] v[k[j]] over `size` points, with `variance`. */
+interface Kernel {
+  k: Int32Array;
+  l: Float64Array;
+  size: number;
+  variance: number;
+}
+
+function newKernel(n: number): Kernel {
+  return { k: new Int32Array(n), l: new Float64Array(n), size: 0, variance: 0 };
 }
 
 /** Samples from sorted arrays, with the kernel width set from the median row spacing. */
@@ -23,7 +37,7 @@ export function pvSamples(y: Float64Array, v: Float64Array, e: Float64Array): Pv
   const gaps = new Float64Array(Math.max(0, y.length - 1));
   for (let k = 1; k < y.length; k++) gaps[k - 1] = y[k]! - y[k - 1]!;
   const spacing = gaps.length > 0 ? median(gaps) : 1;
-  return { y, v, e, kernelRows: KERNEL_SPACINGS * (spacing > 0 ? spacing : 1), weights: new Float64Array(y.length) };
+  return { y, v, e, kernelRows: KERNEL_SPACINGS * (spacing > 0 ? spacing : 1), weights: new Float64Array(y.length), kernel: newKernel(y.length) };
 }
 
 export interface FoldChiSquare {
@@ -36,15 +50,17 @@ export interface FoldChiSquare {
 const KERNEL_SPACINGS = 2.5;
 
 /**
- * The curve at row m from the active points other than `skip`: a local linear fit with biweight
- * kernel weights (1 - (x/h)^2)^2 times the error weights (smooth in m, and it averages down the node noise that
- * would make chi-square bumpy); out = [value, variance]. False when m lies outside the points.
+ * The equivalent kernel of the curve at row m from the active points other than `skip`: a local
+ * linear fit with biweight kernel weights (1 - (x/h)^2)^2 times the error weights (smooth in m, and
+ * it averages down the node noise that would make chi-square bumpy), written into `out` from
+ * entry `at` on. Its variance does not depend on the velocities, only the value sum l v does.
+ * Returns the number of entries, or -1 when m lies outside the points.
  * `lo` is the first point with y >= m - kernelRows (lowerFrom).
  */
-function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, lo: number, out: Float64Array): boolean {
-  const { y, v, e, weights } = p;
+function kernelAt(p: PvSamples, active: Uint8Array, skip: number, m: number, lo: number, out: Kernel, at: number): number {
+  const { y, e, weights } = p;
   const n = y.length;
-  if (!(m >= y[0]! && m <= y[n - 1]!)) return false;
+  if (!(m >= y[0]! && m <= y[n - 1]!)) return -1;
   const h = p.kernelRows;
   // Weighted sums of the local linear fit in x = y - m; the value at m is the intercept.
   let s0 = 0;
@@ -61,19 +77,26 @@ function interpolate(p: PvSamples, active: Uint8Array, skip: number, m: number, 
     s2 += w * x * x;
   }
   const det = s0 * s2 - s1 * s1;
-  if (!(s0 > 0) || !(det > 1e-12 * s0 * s2)) return false;
+  if (!(s0 > 0) || !(det > 1e-12 * s0 * s2)) return -1;
   // Equivalent kernel: l_k = w_k (s2 - s1 x_k) / det.
-  let value = 0;
   let variance = 0;
+  let j = at;
   for (let k = lo; k < n && y[k]! <= m + h; k++) {
     if (active[k] === 0 || k === skip) continue;
     const l = weights[k]! * ((s2 - s1 * (y[k]! - m)) / det);
-    value += l * v[k]!;
+    out.k[j] = k;
+    out.l[j++] = l;
     variance += l * l * e[k]! * e[k]!;
   }
-  out[0] = value;
-  out[1] = variance;
-  return true;
+  out.variance = variance;
+  return j - at;
+}
+
+/** sum l v over kernel entries [from, to): the curve's value, for the velocities v. */
+function kernelValue(kernel: Kernel, from: number, to: number, v: Float64Array): number {
+  let value = 0;
+  for (let j = from; j < to; j++) value += kernel.l[j]! * v[kernel.k[j]!]!;
+  return value;
 }
 
 /**
@@ -89,27 +112,74 @@ function lowerFrom(y: Float64Array, x: number, from: number): number {
 
 /**
  * For every active point i with |y_i - c0| <= half whose mirror row 2c - y_i lies among the
- * points: visit(i, value, variance) of the curve there (interpolate, without point i).
+ * points: visit(i, value, variance) of the curve there (its kernel, without point i).
  */
-function forEachMirror(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, scratch: Float64Array, visit: (i: number, mirrorV: number, mirrorVar: number) => void): void {
-  const { y } = p;
+function forEachMirror(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, visit: (i: number, mirrorV: number, mirrorVar: number) => void): void {
+  const { y, kernel } = p;
   let lo = lowerIndex(y, 2 * c - y[0]! - p.kernelRows);
   for (let i = 0; i < y.length; i++) {
     if (active[i] === 0 || Math.abs(y[i]! - c0) > half) continue;
     const m = 2 * c - y[i]!;
     lo = lowerFrom(y, m - p.kernelRows, lo);
-    if (interpolate(p, active, i, m, lo, scratch)) visit(i, scratch[0]!, scratch[1]!);
+    const size = kernelAt(p, active, i, m, lo, kernel, 0);
+    if (size >= 0) visit(i, kernelValue(kernel, 0, size, p.v), kernel.variance);
   }
 }
 
+/**
+ * The mirrors' kernels at one trial centre, kept: for each compared point (as forEachMirror visits
+ * them) its kernel's entries and variance. A bootstrap draw changes only the velocities, so the
+ * fold of a draw at a centre met before needs only the sums l v (foldChiSquareWith).
+ */
+export interface MirrorKernels {
+  count: number;
+  point: Int32Array;
+  /** Entries of point j's kernel: [start[j], start[j + 1]) of `entries`. */
+  start: Int32Array;
+  entries: Kernel;
+  variance: Float64Array;
+}
+
+export function mirrorKernels(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number): MirrorKernels {
+  const { y } = p;
+  const n = y.length;
+  const point = new Int32Array(n);
+  const start = new Int32Array(n + 1);
+  const variance = new Float64Array(n);
+  // Each kernel holds at most n entries; grown as needed (a kernel spans a few points).
+  let entries = newKernel(4 * n);
+  let count = 0;
+  let lo = lowerIndex(y, 2 * c - y[0]! - p.kernelRows);
+  for (let i = 0; i < n; i++) {
+    if (active[i] === 0 || Math.abs(y[i]! - c0) > half) continue;
+    const m = 2 * c - y[i]!;
+    lo = lowerFrom(y, m - p.kernelRows, lo);
+    const at = start[count]!;
+    if (entries.k.length - at < n) entries = grown(entries, at + n);
+    const size = kernelAt(p, active, i, m, lo, entries, at);
+    if (size < 0) continue;
+    point[count] = i;
+    variance[count] = entries.variance;
+    start[++count] = at + size;
+  }
+  return { count, point, start, entries, variance };
+}
+
+function grown(kernel: Kernel, least: number): Kernel {
+  const out = newKernel(Math.max(least, 2 * kernel.k.length));
+  out.k.set(kernel.k);
+  out.l.set(kernel.l);
+  return out;
+}
+
 /** Chi-square of the fold about row c, comparing the active points with |y - c0| <= half. */
-export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, fixedVSys: number | undefined, scratch: Float64Array): FoldChiSquare {
+export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, fixedVSys: number | undefined): FoldChiSquare {
   const { v, e } = p;
   let sw = 0;
   let swx = 0;
   let swxx = 0;
   let n = 0;
-  forEachMirror(p, active, c, c0, half, scratch, (i, mirrorV, mirrorVar) => {
+  forEachMirror(p, active, c, c0, half, (i, mirrorV, mirrorVar) => {
     const w = 1 / (e[i]! ** 2 + mirrorVar);
     const x = v[i]! + mirrorV;
     sw += w;
@@ -117,6 +187,29 @@ export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: n
     swxx += w * x * x;
     n++;
   });
+  return foldResult(sw, swx, swxx, n, fixedVSys);
+}
+
+/** foldChiSquare at the centre of `kernels` (made with the same points and active set), for the velocities of p. */
+export function foldChiSquareWith(p: PvSamples, kernels: MirrorKernels, fixedVSys: number | undefined): FoldChiSquare {
+  const { v, e } = p;
+  const { point, start, entries, variance } = kernels;
+  let sw = 0;
+  let swx = 0;
+  let swxx = 0;
+  for (let j = 0; j < kernels.count; j++) {
+    const i = point[j]!;
+    // The same operations as foldChiSquare's visit, in the same order.
+    const w = 1 / (e[i]! ** 2 + variance[j]!);
+    const x = v[i]! + kernelValue(entries, start[j]!, start[j + 1]!, v);
+    sw += w;
+    swx += w * x;
+    swxx += w * x * x;
+  }
+  return foldResult(sw, swx, swxx, kernels.count, fixedVSys);
+}
+
+function foldResult(sw: number, swx: number, swxx: number, n: number, fixedVSys: number | undefined): FoldChiSquare {
   if (n === 0) return { chi2: Infinity, vSys: NaN, n };
   // sum w (x - 2 vs)^2 expanded, so one pass suffices.
   const vSys = fixedVSys ?? swx / (2 * sw);
@@ -131,10 +224,10 @@ export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: n
  * all too small, or a centre far off, from losing most of its points. A point far off its mirror
  * also pulls the mirrors of its neighbours' partners, but diluted by the kernel: one pass suffices.
  */
-export function dropAsymmetricPoints(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, vSys: number, limit: number, scratch: Float64Array): number {
+export function dropAsymmetricPoints(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, vSys: number, limit: number): number {
   const { y, v, e } = p;
   const z = new Float64Array(y.length).fill(NaN);
-  forEachMirror(p, active, c, c0, half, scratch, (i, mirrorV, mirrorVar) => {
+  forEachMirror(p, active, c, c0, half, (i, mirrorV, mirrorVar) => {
     z[i] = (v[i]! + mirrorV - 2 * vSys) / Math.sqrt(e[i]! ** 2 + mirrorVar);
   });
   const cut = limit * Math.max(1, madSigma(z));

@@ -11,7 +11,7 @@
  */
 import { Rng } from '../../kernels/random.js';
 import type { SymmetryFit } from '../../products/curve.js';
-import { dropAsymmetricPoints, foldChiSquare, type FoldChiSquare, type PvSamples } from './mirror.js';
+import { dropAsymmetricPoints, foldChiSquare, foldChiSquareWith, mirrorKernels, type FoldChiSquare, type MirrorKernels, type PvSamples } from './mirror.js';
 
 export interface SymmetryOptions {
   /** Where the search starts (internal row), e.g. the continuum peak. */
@@ -55,13 +55,16 @@ interface Best {
   searchRows: number;
 }
 
-/** Best centre in [lo, hi]: a grid of `steps` intervals, then golden section about the best node. */
-function searchCentre(p: PvSamples, active: Uint8Array, lo: number, hi: number, steps: number, c0: number, half: number, fixedVSys: number | undefined, scratch: Float64Array): Best {
+/**
+ * Best centre in [lo, hi]: a grid of `steps` intervals, then golden section about the best node.
+ * `grid`, when given, holds the mirror kernels at the nodes (gridKernels with the same arguments).
+ */
+function searchCentre(p: PvSamples, active: Uint8Array, lo: number, hi: number, steps: number, c0: number, half: number, fixedVSys: number | undefined, grid?: MirrorKernels[]): Best {
   const step = (hi - lo) / steps;
   let bestK = 0;
   let bestChi2 = Infinity;
   for (let k = 0; k <= steps; k++) {
-    const f = foldChiSquare(p, active, lo + k * step, c0, half, fixedVSys, scratch);
+    const f = grid ? foldChiSquareWith(p, grid[k]!, fixedVSys) : foldChiSquare(p, active, lo + k * step, c0, half, fixedVSys);
     if (f.chi2 < bestChi2) {
       bestChi2 = f.chi2;
       bestK = k;
@@ -69,34 +72,42 @@ function searchCentre(p: PvSamples, active: Uint8Array, lo: number, hi: number, 
   }
   const a = lo + Math.max(0, bestK - 1) * step;
   const b = lo + Math.min(steps, bestK + 1) * step;
-  const refined = golden(p, active, a, b, c0, half, fixedVSys, scratch);
+  const refined = golden(p, active, a, b, c0, half, fixedVSys);
   return { ...refined, atEdge: bestK === 0 || bestK === steps, searchRows: (hi - lo) / 2 };
 }
 
+/** The mirror kernels at the grid nodes of searchCentre(p, active, lo, hi, steps, c0, half, ...). */
+function gridKernels(p: PvSamples, active: Uint8Array, lo: number, hi: number, steps: number, c0: number, half: number): MirrorKernels[] {
+  const step = (hi - lo) / steps;
+  const out: MirrorKernels[] = [];
+  for (let k = 0; k <= steps; k++) out.push(mirrorKernels(p, active, lo + k * step, c0, half));
+  return out;
+}
+
 /** Golden-section minimum of chi-square over centres in [a, b]. */
-function golden(p: PvSamples, active: Uint8Array, a: number, b: number, c0: number, half: number, fixedVSys: number | undefined, scratch: Float64Array): Best {
+function golden(p: PvSamples, active: Uint8Array, a: number, b: number, c0: number, half: number, fixedVSys: number | undefined): Best {
   const g = (Math.sqrt(5) - 1) / 2;
   let x1 = b - g * (b - a);
   let x2 = a + g * (b - a);
-  let f1 = foldChiSquare(p, active, x1, c0, half, fixedVSys, scratch).chi2;
-  let f2 = foldChiSquare(p, active, x2, c0, half, fixedVSys, scratch).chi2;
+  let f1 = foldChiSquare(p, active, x1, c0, half, fixedVSys).chi2;
+  let f2 = foldChiSquare(p, active, x2, c0, half, fixedVSys).chi2;
   while (b - a > GOLDEN_TOLERANCE_ROWS) {
     if (f1 <= f2) {
       b = x2;
       x2 = x1;
       f2 = f1;
       x1 = b - g * (b - a);
-      f1 = foldChiSquare(p, active, x1, c0, half, fixedVSys, scratch).chi2;
+      f1 = foldChiSquare(p, active, x1, c0, half, fixedVSys).chi2;
     } else {
       a = x1;
       x1 = x2;
       f1 = f2;
       x2 = a + g * (b - a);
-      f2 = foldChiSquare(p, active, x2, c0, half, fixedVSys, scratch).chi2;
+      f2 = foldChiSquare(p, active, x2, c0, half, fixedVSys).chi2;
     }
   }
   const centre = (a + b) / 2;
-  return { centre, fold: foldChiSquare(p, active, centre, c0, half, fixedVSys, scratch), atEdge: false, windowCentre: c0, searchRows: 0 };
+  return { centre, fold: foldChiSquare(p, active, centre, c0, half, fixedVSys), atEdge: false, windowCentre: c0, searchRows: 0 };
 }
 
 /**
@@ -111,19 +122,19 @@ function searchWindow(p: PvSamples, c0: number, searchRows: number): { search: n
   return { search, half: shorter - 2 * search };
 }
 
-function searchAbout(p: PvSamples, active: Uint8Array, c0: number, searchRows: number, stepRows: number, fixedVSys: number | undefined, scratch: Float64Array): Best {
+function searchAbout(p: PvSamples, active: Uint8Array, c0: number, searchRows: number, stepRows: number, fixedVSys: number | undefined): Best {
   const { search, half } = searchWindow(p, c0, searchRows);
-  if (search === 0) return { centre: c0, fold: foldChiSquare(p, active, c0, c0, half, fixedVSys, scratch), atEdge: false, windowCentre: c0, searchRows: 0 };
+  if (search === 0) return { centre: c0, fold: foldChiSquare(p, active, c0, c0, half, fixedVSys), atEdge: false, windowCentre: c0, searchRows: 0 };
   const steps = Math.max(2, Math.ceil((2 * search) / stepRows));
-  return searchCentre(p, active, c0 - search, c0 + search, steps, c0, half, fixedVSys, scratch);
+  return searchCentre(p, active, c0 - search, c0 + search, steps, c0, half, fixedVSys);
 }
 
 /** Full fit: the centre searched about the start, then again narrowly about that result (more rows compared). */
-function fitOnce(p: PvSamples, active: Uint8Array, opts: SymmetryOptions, scratch: Float64Array): Best {
-  if (opts.fixedCentreRow !== undefined) return searchAbout(p, active, opts.fixedCentreRow, 0, FINE_STEP_ROWS, opts.fixedVSysKms, scratch);
-  const coarse = searchAbout(p, active, opts.startRow, opts.searchRows, COARSE_STEP_ROWS, opts.fixedVSysKms, scratch);
+function fitOnce(p: PvSamples, active: Uint8Array, opts: SymmetryOptions): Best {
+  if (opts.fixedCentreRow !== undefined) return searchAbout(p, active, opts.fixedCentreRow, 0, FINE_STEP_ROWS, opts.fixedVSysKms);
+  const coarse = searchAbout(p, active, opts.startRow, opts.searchRows, COARSE_STEP_ROWS, opts.fixedVSysKms);
   if (coarse.atEdge) return coarse;
-  return searchAbout(p, active, coarse.centre, NARROW_SEARCH_ROWS, FINE_STEP_ROWS, opts.fixedVSysKms, scratch);
+  return searchAbout(p, active, coarse.centre, NARROW_SEARCH_ROWS, FINE_STEP_ROWS, opts.fixedVSysKms);
 }
 
 /** Bootstrap draws: the error of an error from 50 draws is about 10%. */
@@ -145,17 +156,22 @@ interface Spread {
 /** The bootstrap draws with a given reach of the centre search (the same seed each time). */
 function bootstrap(samples: PvSamples, active: Uint8Array, best: Best, fitsCentre: boolean, fixedVSys: number | undefined, reach: number, draws: number): Spread {
   const n = samples.y.length;
-  const scratch = new Float64Array(2);
   const { half } = searchWindow(samples, best.windowCentre, best.searchRows);
   const drawn: PvSamples = { ...samples, v: new Float64Array(n) };
   const rng = new Rng(BOOTSTRAP_SEED);
   const out: Spread = { scc: 0, svv: 0, maxShift: 0 };
+  // The draws change only the velocities: the kernels at the grid nodes (or the fixed centre) are
+  // found once; the golden-section centres differ from draw to draw.
+  const lo = best.centre - reach;
+  const hi = best.centre + reach;
+  const grid = fitsCentre ? gridKernels(samples, active, lo, hi, BOOTSTRAP_GRID_STEPS, best.windowCentre, half) : [];
+  const fixed = fitsCentre ? undefined : mirrorKernels(samples, active, best.centre, best.windowCentre, half);
   for (let b = 0; b < draws; b++) {
     for (let j = 0; j < n; j++) drawn.v[j] = samples.v[j]! + samples.e[j]! * rng.normal();
     // Same compared window as the fit; the centre re-found within the reach of the fitted one.
-    const again = fitsCentre
-      ? searchCentre(drawn, active, best.centre - reach, best.centre + reach, BOOTSTRAP_GRID_STEPS, best.windowCentre, half, fixedVSys, scratch)
-      : { centre: best.centre, fold: foldChiSquare(drawn, active, best.centre, best.windowCentre, half, fixedVSys, scratch) };
+    const again = fixed === undefined
+      ? searchCentre(drawn, active, lo, hi, BOOTSTRAP_GRID_STEPS, best.windowCentre, half, fixedVSys, grid)
+      : { centre: best.centre, fold: foldChiSquareWith(drawn, fixed, fixedVSys) };
     out.scc += (again.centre - best.centre) ** 2;
     out.svv += (again.fold.vSys - best.fold.vSys) ** 2;
     out.maxShift = Math.max(out.maxShift, Math.abs(again.centre - best.centre));
@@ -166,13 +182,12 @@ function bootstrap(samples: PvSamples, active: Uint8Array, best: Best, fitsCentr
 /** Fit the centre and v_sys (either may be fixed), with bootstrap errors. */
 export function fitSymmetry(samples: PvSamples, opts: SymmetryOptions): SymmetryResult | null {
   const active = new Uint8Array(samples.y.length).fill(1);
-  const scratch = new Float64Array(2);
-  let best = fitOnce(samples, active, opts, scratch);
+  let best = fitOnce(samples, active, opts);
   if (best.fold.n < MIN_COMPARED) return null;
   const { half } = searchWindow(samples, best.windowCentre, best.searchRows);
   // A centre at the edge of the search is not trusted enough to judge points by.
-  const nDropped = best.atEdge ? 0 : dropAsymmetricPoints(samples, active, best.centre, best.windowCentre, half, best.fold.vSys, OUTLIER_SIGMA, scratch);
-  if (nDropped > 0) best = fitOnce(samples, active, opts, scratch);
+  const nDropped = best.atEdge ? 0 : dropAsymmetricPoints(samples, active, best.centre, best.windowCentre, half, best.fold.vSys, OUTLIER_SIGMA);
+  if (nDropped > 0) best = fitOnce(samples, active, opts);
   if (best.fold.n < MIN_COMPARED) return null;
   const fitsCentre = opts.fixedCentreRow === undefined;
   // A few pilot draws set the reach: a draw near the edge of its search would cut the
