@@ -146,8 +146,9 @@ export function mirrorKernels(p: PvSamples, active: Uint8Array, c: number, c0: n
   const point = new Int32Array(n);
   const start = new Int32Array(n + 1);
   const variance = new Float64Array(n);
-  // Each kernel holds at most n entries; grown as needed (a kernel spans a few points).
-  let entries = newKernel(4 * n);
+  // Built in a scratch store that grows as needed (each kernel holds at most n entries, mostly a
+  // few), then copied at its size: a bootstrap keeps hundreds of these.
+  let entries = building.k.length >= 4 * n ? building : (building = newKernel(4 * n));
   let count = 0;
   let lo = lowerIndex(y, 2 * c - y[0]! - p.kernelRows);
   for (let i = 0; i < n; i++) {
@@ -155,15 +156,19 @@ export function mirrorKernels(p: PvSamples, active: Uint8Array, c: number, c0: n
     const m = 2 * c - y[i]!;
     lo = lowerFrom(y, m - p.kernelRows, lo);
     const at = start[count]!;
-    if (entries.k.length - at < n) entries = grown(entries, at + n);
+    if (entries.k.length - at < n) entries = building = grown(entries, at + n);
     const size = kernelAt(p, active, i, m, lo, entries, at);
     if (size < 0) continue;
     point[count] = i;
     variance[count] = entries.variance;
     start[++count] = at + size;
   }
-  return { count, point, start, entries, variance };
+  const size = start[count]!;
+  const kept: Kernel = { k: entries.k.slice(0, size), l: entries.l.slice(0, size), size, variance: 0 };
+  return { count, point: point.slice(0, count), start: start.slice(0, count + 1), entries: kept, variance: variance.slice(0, count) };
 }
+
+let building = newKernel(0);
 
 function grown(kernel: Kernel, least: number): Kernel {
   const out = newKernel(Math.max(least, 2 * kernel.k.length));

@@ -55,16 +55,16 @@ interface Best {
   searchRows: number;
 }
 
-/**
- * Best centre in [lo, hi]: a grid of `steps` intervals, then golden section about the best node.
- * `grid`, when given, holds the mirror kernels at the nodes (gridKernels with the same arguments).
- */
-function searchCentre(p: PvSamples, active: Uint8Array, lo: number, hi: number, steps: number, c0: number, half: number, fixedVSys: number | undefined, grid?: MirrorKernels[]): Best {
+/** Chi-square of the fold about a trial centre (the points, active set and compared window fixed). */
+type Fold = (c: number) => FoldChiSquare;
+
+/** Best centre in [lo, hi]: a grid of `steps` intervals, then golden section about the best node. */
+function searchCentre(lo: number, hi: number, steps: number, c0: number, fold: Fold): Best {
   const step = (hi - lo) / steps;
   let bestK = 0;
   let bestChi2 = Infinity;
   for (let k = 0; k <= steps; k++) {
-    const f = grid ? foldChiSquareWith(p, grid[k]!, fixedVSys) : foldChiSquare(p, active, lo + k * step, c0, half, fixedVSys);
+    const f = fold(lo + k * step);
     if (f.chi2 < bestChi2) {
       bestChi2 = f.chi2;
       bestK = k;
@@ -72,42 +72,34 @@ function searchCentre(p: PvSamples, active: Uint8Array, lo: number, hi: number, 
   }
   const a = lo + Math.max(0, bestK - 1) * step;
   const b = lo + Math.min(steps, bestK + 1) * step;
-  const refined = golden(p, active, a, b, c0, half, fixedVSys);
+  const refined = golden(a, b, c0, fold);
   return { ...refined, atEdge: bestK === 0 || bestK === steps, searchRows: (hi - lo) / 2 };
 }
 
-/** The mirror kernels at the grid nodes of searchCentre(p, active, lo, hi, steps, c0, half, ...). */
-function gridKernels(p: PvSamples, active: Uint8Array, lo: number, hi: number, steps: number, c0: number, half: number): MirrorKernels[] {
-  const step = (hi - lo) / steps;
-  const out: MirrorKernels[] = [];
-  for (let k = 0; k <= steps; k++) out.push(mirrorKernels(p, active, lo + k * step, c0, half));
-  return out;
-}
-
 /** Golden-section minimum of chi-square over centres in [a, b]. */
-function golden(p: PvSamples, active: Uint8Array, a: number, b: number, c0: number, half: number, fixedVSys: number | undefined): Best {
+function golden(a: number, b: number, c0: number, fold: Fold): Best {
   const g = (Math.sqrt(5) - 1) / 2;
   let x1 = b - g * (b - a);
   let x2 = a + g * (b - a);
-  let f1 = foldChiSquare(p, active, x1, c0, half, fixedVSys).chi2;
-  let f2 = foldChiSquare(p, active, x2, c0, half, fixedVSys).chi2;
+  let f1 = fold(x1).chi2;
+  let f2 = fold(x2).chi2;
   while (b - a > GOLDEN_TOLERANCE_ROWS) {
     if (f1 <= f2) {
       b = x2;
       x2 = x1;
       f2 = f1;
       x1 = b - g * (b - a);
-      f1 = foldChiSquare(p, active, x1, c0, half, fixedVSys).chi2;
+      f1 = fold(x1).chi2;
     } else {
       a = x1;
       x1 = x2;
       f1 = f2;
       x2 = a + g * (b - a);
-      f2 = foldChiSquare(p, active, x2, c0, half, fixedVSys).chi2;
+      f2 = fold(x2).chi2;
     }
   }
   const centre = (a + b) / 2;
-  return { centre, fold: foldChiSquare(p, active, centre, c0, half, fixedVSys), atEdge: false, windowCentre: c0, searchRows: 0 };
+  return { centre, fold: fold(centre), atEdge: false, windowCentre: c0, searchRows: 0 };
 }
 
 /**
@@ -124,9 +116,10 @@ function searchWindow(p: PvSamples, c0: number, searchRows: number): { search: n
 
 function searchAbout(p: PvSamples, active: Uint8Array, c0: number, searchRows: number, stepRows: number, fixedVSys: number | undefined): Best {
   const { search, half } = searchWindow(p, c0, searchRows);
-  if (search === 0) return { centre: c0, fold: foldChiSquare(p, active, c0, c0, half, fixedVSys), atEdge: false, windowCentre: c0, searchRows: 0 };
+  const fold: Fold = (c) => foldChiSquare(p, active, c, c0, half, fixedVSys);
+  if (search === 0) return { centre: c0, fold: fold(c0), atEdge: false, windowCentre: c0, searchRows: 0 };
   const steps = Math.max(2, Math.ceil((2 * search) / stepRows));
-  return searchCentre(p, active, c0 - search, c0 + search, steps, c0, half, fixedVSys);
+  return searchCentre(c0 - search, c0 + search, steps, c0, fold);
 }
 
 /** Full fit: the centre searched about the start, then again narrowly about that result (more rows compared). */
@@ -160,18 +153,18 @@ function bootstrap(samples: PvSamples, active: Uint8Array, best: Best, fitsCentr
   const drawn: PvSamples = { ...samples, v: new Float64Array(n) };
   const rng = new Rng(BOOTSTRAP_SEED);
   const out: Spread = { scc: 0, svv: 0, maxShift: 0 };
-  // The draws change only the velocities: the kernels at the grid nodes (or the fixed centre) are
-  // found once; the golden-section centres differ from draw to draw.
-  const lo = best.centre - reach;
-  const hi = best.centre + reach;
-  const grid = fitsCentre ? gridKernels(samples, active, lo, hi, BOOTSTRAP_GRID_STEPS, best.windowCentre, half) : [];
-  const fixed = fitsCentre ? undefined : mirrorKernels(samples, active, best.centre, best.windowCentre, half);
+  // The draws change only the velocities: the mirror kernels at a centre are found once and kept
+  // for every draw that tries that centre again (the grid nodes, the first golden-section steps).
+  const kept = new Map<number, MirrorKernels>();
+  const fold: Fold = (c) => {
+    let kernels = kept.get(c);
+    if (kernels === undefined) kept.set(c, (kernels = mirrorKernels(samples, active, c, best.windowCentre, half)));
+    return foldChiSquareWith(drawn, kernels, fixedVSys);
+  };
   for (let b = 0; b < draws; b++) {
     for (let j = 0; j < n; j++) drawn.v[j] = samples.v[j]! + samples.e[j]! * rng.normal();
     // Same compared window as the fit; the centre re-found within the reach of the fitted one.
-    const again = fixed === undefined
-      ? searchCentre(drawn, active, lo, hi, BOOTSTRAP_GRID_STEPS, best.windowCentre, half, fixedVSys, grid)
-      : { centre: best.centre, fold: foldChiSquareWith(drawn, fixed, fixedVSys) };
+    const again = fitsCentre ? searchCentre(best.centre - reach, best.centre + reach, BOOTSTRAP_GRID_STEPS, best.windowCentre, fold) : { centre: best.centre, fold: fold(best.centre) };
     out.scc += (again.centre - best.centre) ** 2;
     out.svv += (again.fold.vSys - best.fold.vSys) ** 2;
     out.maxShift = Math.max(out.maxShift, Math.abs(again.centre - best.centre));
