@@ -8,15 +8,21 @@ import { Header, type Card } from '../../fits/header.js';
 
 const TAG = '__whorlHeaderCards';
 
-/** Headers tagged; the objects and arrays above one are copied, everything else is shared, not copied (most of a product holds no Header). */
+/**
+ * Headers tagged; the objects and arrays above one are copied, everything else is shared, not
+ * copied (most of a product holds no Header). Primitives are passed over without a call: the
+ * report's inputs hold long arrays of numbers and of small objects.
+ */
 export function pack<T>(value: T): unknown {
   if (value instanceof Header) return { [TAG]: value.cards };
   if (Array.isArray(value)) {
     let out: unknown[] | undefined;
-    value.forEach((v, i) => {
+    for (let i = 0; i < value.length; i++) {
+      const v: unknown = value[i];
+      if (v === null || typeof v !== 'object') continue;
       const p = pack(v);
       if (p !== v) (out ??= [...value])[i] = p;
-    });
+    }
     return out ?? value;
   }
   if (value && typeof value === 'object' && !ArrayBuffer.isView(value)) {
@@ -24,6 +30,7 @@ export function pack<T>(value: T): unknown {
     let out: Record<string, unknown> | undefined;
     for (const k of Object.keys(o)) {
       const v = o[k];
+      if (v === null || typeof v !== 'object') continue;
       const p = pack(v);
       if (p !== v) (out ??= { ...o })[k] = p;
     }
