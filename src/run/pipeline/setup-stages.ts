@@ -7,6 +7,7 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Diagnostic } from '../../diagnostics.js';
 import { writeFitsPieces } from '../../fits/write.js';
+import { giveBack } from '../../kernels/frame-pool.js';
 import { loadLampLines, readLineListFile, type LampLine } from '../../physics/catalogues.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
 import { formatArcLinesCsv, formatSolutionJson } from '../../products/writers/wavelength.js';
@@ -112,6 +113,8 @@ function solvedCalibration(setup: ResolvedSetup, run: ResolvedRun, ccdSettings: 
   const { arc, ...ccd } = ccdCalibration(setup, run, ccdSettings, timer);
   const lampLines: LampLine[] = [...loadLampLines(setup.lamps), ...setup.line_lists.flatMap((f) => readLineListFile(f))].sort((a, b) => a.wavelength - b.wavelength);
   const solution = timer.stage(SETUP_STAGES[2], () => solveWavelengths(arc, lampLines, arcSettings));
+  // The calibrated arc is read by nobody now (the solution holds arrays of its own): pooled for the science.
+  giveBack(arc.sci, arc.var, arc.mask);
   return { ccd, solution };
 }
 
@@ -121,5 +124,8 @@ function ccdCalibration(setup: ResolvedSetup, run: ResolvedRun, settings: CcdSet
     const [bias, flat, arc] = [setup.bias, setup.flat, setup.arc].map((paths) => loadFrames(paths, run.baseDir));
     return { product: { bias: bias!.product, flat: flat!.product, arc: arc!.product }, diagnostics: [bias!, flat!, arc!].flatMap((r) => r.diagnostics) };
   });
-  return timer.stage(SETUP_STAGES[1], () => buildCalibration(frames, settings));
+  const calibration = timer.stage(SETUP_STAGES[1], () => buildCalibration(frames, settings));
+  // The products hold trimmed copies, never the raw pixels: the raw frames are dead, pooled for the science frames.
+  for (const f of [...frames.bias, ...frames.flat, ...frames.arc]) giveBack(f.data);
+  return calibration;
 }

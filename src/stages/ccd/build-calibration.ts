@@ -4,6 +4,7 @@
  */
 import { DiagnosticLog } from '../../diagnostics.js';
 import { InputError, StageError } from '../../errors.js';
+import { giveBack } from '../../kernels/frame-pool.js';
 import { medianOfBuffer } from '../../kernels/robust.js';
 import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from '../../products/frame.js';
 import { toInternal } from '../../products/orientation.js';
@@ -136,6 +137,10 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     gain: det.gain, readNoiseE: det.readNoiseE,
   };
   if (arcExposures.length > 1) arc.rejected = arcCombined.rejected;
+  // The arc exposures after the first, consumed by the combination, and the unused spares are
+  // dead: pooled for the science frames.
+  const products = [masterBias, masterFlat, flatVariance, flatMask, arc.sci, arc.var, arc.mask];
+  giveBack(...unshared([...spareData, ...arcExposures.slice(1).flatMap((e) => [e.sci, e.var])], products), ...unshared([...spareMask, ...arcExposures.slice(1).map((e) => e.mask)], products));
   const product: CcdCalibration = {
     orientation, section: det.data, width, height, gain: det.gain, readNoiseE: det.readNoiseE,
     masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask, arc,

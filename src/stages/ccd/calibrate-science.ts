@@ -6,6 +6,7 @@
  */
 import { DiagnosticLog } from '../../diagnostics.js';
 import { InputError } from '../../errors.js';
+import { takeFloat32, takeUint16 } from '../../kernels/frame-pool.js';
 import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from '../../products/frame.js';
 import type { CcdCalibration } from './calibration.js';
 import { combineExposures, MAX_EXPOSURES } from './combine-exposures.js';
@@ -53,7 +54,14 @@ export function calibrateScience(science: RawFrame[], cal: Omit<CcdCalibration, 
   });
   const det = cal.reference.detector;
   const exposureCal: ExposureCalibration = cal;
-  const exposures = science.map((f) => calibrateExposure(trimFrame(f, det, settings.overscanOrder), exposureCal));
+  // Trimmed frame, mask and variance in pooled dead frames where there are any (each is
+  // overwritten in full); a reoriented exposure puts its variance in its trimmed frame instead.
+  const n = (det.data.x1 - det.data.x0) * (det.data.y1 - det.data.y0);
+  const same = !cal.orientation.transpose && !cal.orientation.flipX;
+  const exposures = science.map((f) => {
+    const trimmed = trimFrame(f, det, settings.overscanOrder, true, { data: takeFloat32(n), mask: takeUint16(n) });
+    return calibrateExposure(trimmed, exposureCal, same ? takeFloat32(n) : undefined);
+  });
   const combined = combineExposures(exposures, infos.map((e) => e.exptimeS), exposureCal, settings);
   const frame: CalibratedFrame = {
     width: cal.width, height: cal.height, sci: combined.sci, var: combined.var, mask: combined.mask,
