@@ -8,8 +8,8 @@
 
 /** Smaller arrays come cheaply from V8's own heap. */
 const MIN_LENGTH = 1 << 20;
-/** Arrays kept per type and length: enough for a target's exposures, few enough to bound memory. */
-const MAX_PER_SIZE = 4;
+/** Arrays kept per type and length: most of what three exposures take, few enough to bound memory (6 raised the peak by ~80 MB). */
+const MAX_PER_SIZE = 5;
 
 type PooledArray = Float32Array | Uint16Array;
 
