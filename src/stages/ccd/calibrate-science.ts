@@ -14,7 +14,8 @@ import { checkSameDetector, resolveDetector } from './detector.js';
 import { calibrateExposure, type ExposureCalibration } from './exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { laplacianClean } from './laplacian-clean.js';
-import { trimFrame } from './overscan.js';
+import { overscanLevel, trimFrame } from './overscan.js';
+import { calibrateRawExposure } from './raw-exposure.js';
 import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 /** Mask bits that keep a pixel out of the Laplacian detection and of the replacement medians. */
@@ -54,13 +55,13 @@ export function calibrateScience(science: RawFrame[], cal: Omit<CcdCalibration, 
   });
   const det = cal.reference.detector;
   const exposureCal: ExposureCalibration = cal;
-  // Trimmed frame, mask and variance in pooled dead frames where there are any (each is
-  // overwritten in full); a reoriented exposure puts its variance in its trimmed frame instead.
+  // Each exposure in pooled dead frames where there are any (every value is overwritten): in the
+  // usual orientation straight from the raw pixels, else through a trimmed frame that is reoriented.
   const n = (det.data.x1 - det.data.x0) * (det.data.y1 - det.data.y0);
   const same = !cal.orientation.transpose && !cal.orientation.flipX;
   const exposures = science.map((f) => {
-    const trimmed = trimFrame(f, det, settings.overscanOrder, true, { data: takeFloat32(n), mask: takeUint16(n) });
-    return calibrateExposure(trimmed, exposureCal, same ? takeFloat32(n) : undefined);
+    if (same) return calibrateRawExposure(f, det, overscanLevel(f, det, settings.overscanOrder), exposureCal, { sci: takeFloat32(n), var: takeFloat32(n), mask: takeUint16(n) });
+    return calibrateExposure(trimFrame(f, det, settings.overscanOrder, true, { data: takeFloat32(n), mask: takeUint16(n) }), exposureCal);
   });
   const combined = combineExposures(exposures, infos.map((e) => e.exptimeS), exposureCal, settings);
   const frame: CalibratedFrame = {
