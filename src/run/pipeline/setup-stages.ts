@@ -125,7 +125,9 @@ function ccdCalibration(setup: ResolvedSetup, run: ResolvedRun, settings: CcdSet
     return { product: { bias: bias!.product, flat: flat!.product, arc: arc!.product }, diagnostics: [bias!, flat!, arc!].flatMap((r) => r.diagnostics) };
   });
   const calibration = timer.stage(SETUP_STAGES[1], () => buildCalibration(frames, settings));
-  // The products hold trimmed copies, never the raw pixels: the raw frames are dead, pooled for the science frames.
-  for (const f of [...frames.bias, ...frames.flat, ...frames.arc]) giveBack(f.data);
+  // The products hold trimmed copies, never the raw pixels: the raw frames are dead. As many as
+  // the largest target of this setup loads are pooled for its science frames (more would only hold memory).
+  const wanted = Math.max(0, ...run.targets.filter((t) => t.setup === setup.name).map((t) => t.frames.length));
+  for (const f of [...frames.bias, ...frames.flat, ...frames.arc].slice(0, wanted)) giveBack(f.data);
   return calibration;
 }
