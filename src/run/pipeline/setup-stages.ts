@@ -7,7 +7,7 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Diagnostic } from '../../diagnostics.js';
 import { writeFitsPieces } from '../../fits/write.js';
-import { giveBack } from '../../kernels/frame-pool.js';
+import { emptyPool, giveBack } from '../../kernels/frame-pool.js';
 import { loadLampLines, readLineListFile, type LampLine } from '../../physics/catalogues.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
 import { formatArcLinesCsv, formatSolutionJson } from '../../products/writers/wavelength.js';
@@ -66,6 +66,7 @@ export function calibrateSetupCached(setup: ResolvedSetup, run: ResolvedRun, key
     const calibration = calibrateSetup(setup, run, timer);
     return { ok: true, calibration, ms: timer.ms, caching: cacheCalibration(run.outputDir, setup.folder, key, calibration) };
   } catch (e) {
+    emptyPool(); // no target of this setup will take the frames pooled so far
     const [code, reason] = describeFailure(e);
     return { ok: false, code, reason };
   }

@@ -88,9 +88,11 @@ function calibratedScience(job: TargetJob, cal: SetupCalibration, settings: Targ
 
 /** Loading and the CCD stage in a function of their own, so the raw frames are freed before the flip copies the frame. */
 function combinedScience(job: TargetJob, cal: SetupCalibration, settings: TargetStageSettings, timer: StageTimer): CalibratedFrame {
-  const frames = timer.stage(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
-  const calibrated = timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
-  // The frames pooled since the calibration are not needed by the later stages: their memory goes back.
-  emptyPool();
-  return calibrated;
+  try {
+    const frames = timer.stage(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
+    return timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
+  } finally {
+    // The frames pooled since the calibration are not needed by the later stages: their memory goes back.
+    emptyPool();
+  }
 }
