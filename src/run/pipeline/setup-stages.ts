@@ -7,6 +7,7 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Diagnostic } from '../../diagnostics.js';
 import { writeFitsPieces } from '../../fits/write.js';
+import { emptyPool, giveBack } from '../../kernels/frame-pool.js';
 import { loadLampLines, readLineListFile, type LampLine } from '../../physics/catalogues.js';
 import type { WavelengthSolution } from '../../products/wavelength.js';
 import { formatArcLinesCsv, formatSolutionJson } from '../../products/writers/wavelength.js';
@@ -65,6 +66,7 @@ export function calibrateSetupCached(setup: ResolvedSetup, run: ResolvedRun, key
     const calibration = calibrateSetup(setup, run, timer);
     return { ok: true, calibration, ms: timer.ms, caching: cacheCalibration(run.outputDir, setup.folder, key, calibration) };
   } catch (e) {
+    emptyPool(); // no target of this setup will take the frames pooled so far
     const [code, reason] = describeFailure(e);
     return { ok: false, code, reason };
   }
@@ -112,6 +114,8 @@ function solvedCalibration(setup: ResolvedSetup, run: ResolvedRun, ccdSettings: 
   const { arc, ...ccd } = ccdCalibration(setup, run, ccdSettings, timer);
   const lampLines: LampLine[] = [...loadLampLines(setup.lamps), ...setup.line_lists.flatMap((f) => readLineListFile(f))].sort((a, b) => a.wavelength - b.wavelength);
   const solution = timer.stage(SETUP_STAGES[2], () => solveWavelengths(arc, lampLines, arcSettings));
+  // The calibrated arc is read by nobody now (the solution holds arrays of its own): pooled for the science.
+  giveBack(arc.sci, arc.var, arc.mask);
   return { ccd, solution };
 }
 
@@ -121,5 +125,10 @@ function ccdCalibration(setup: ResolvedSetup, run: ResolvedRun, settings: CcdSet
     const [bias, flat, arc] = [setup.bias, setup.flat, setup.arc].map((paths) => loadFrames(paths, run.baseDir));
     return { product: { bias: bias!.product, flat: flat!.product, arc: arc!.product }, diagnostics: [bias!, flat!, arc!].flatMap((r) => r.diagnostics) };
   });
-  return timer.stage(SETUP_STAGES[1], () => buildCalibration(frames, settings));
+  const calibration = timer.stage(SETUP_STAGES[1], () => buildCalibration(frames, settings));
+  // The products hold trimmed copies, never the raw pixels: the raw frames are dead. As many as
+  // the largest target of this setup loads are pooled for its science frames (more would only hold memory).
+  const wanted = Math.max(0, ...run.targets.filter((t) => t.setup === setup.name).map((t) => t.frames.length));
+  for (const f of [...frames.bias, ...frames.flat, ...frames.arc].slice(0, wanted)) giveBack(f.data);
+  return calibration;
 }

@@ -4,6 +4,7 @@
  * threads the products through.
  */
 import type { CalibratedFrame } from '../../products/frame.js';
+import { emptyPool } from '../../kernels/frame-pool.js';
 import { flipFrameX } from '../../products/orientation.js';
 import type { RotationCurve, VelocityTable } from '../../products/curve.js';
 import type { LineTable, SkyModel } from '../../products/lines.js';
@@ -88,6 +89,11 @@ function calibratedScience(job: TargetJob, cal: SetupCalibration, settings: Targ
 
 /** Loading and the CCD stage in a function of their own, so the raw frames are freed before the flip copies the frame. */
 function combinedScience(job: TargetJob, cal: SetupCalibration, settings: TargetStageSettings, timer: StageTimer): CalibratedFrame {
-  const frames = timer.stage(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
-  return timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
+  try {
+    const frames = timer.stage(TARGET_STAGES[0], () => loadFrames(job.target.frames, job.baseDir));
+    return timer.stage(TARGET_STAGES[1], () => calibrateScience(frames, cal.ccd, settings.ccd));
+  } finally {
+    // The frames pooled since the calibration are not needed by the later stages: their memory goes back.
+    emptyPool();
+  }
 }

@@ -4,6 +4,7 @@
  */
 import { DiagnosticLog } from '../../diagnostics.js';
 import { InputError, StageError } from '../../errors.js';
+import { giveBack } from '../../kernels/frame-pool.js';
 import { medianOfBuffer } from '../../kernels/robust.js';
 import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from '../../products/frame.js';
 import { toInternal } from '../../products/orientation.js';
@@ -100,12 +101,13 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   let flatVariance: Float32Array;
   let flatMask: Uint16Array;
   let combinedInternal: Float32Array | null = null;
+  let flatModel: Float32Array | null = null;
   if (combinedFlat) {
     combinedInternal = internal(combinedFlat.data);
     const normalised = normaliseFlat(combinedInternal, width, height, badInternal.data, {
       gain: det.gain, readNoiseE: det.readNoiseE, biasVarianceAdu: bias.varianceAdu, count: combinedFlat.count,
     }, settings, same ? bad.flatColumnMedians ?? undefined : undefined);
-    ({ flat: masterFlat, variance: flatVariance, mask: flatMask } = normalised);
+    ({ flat: masterFlat, variance: flatVariance, mask: flatMask, model: flatModel } = normalised);
     if (normalised.unfitRows.length > 0) log.warn('flat-dark-rows', `${normalised.unfitRows.length} row(s) without enough flat light are masked`, { actual: normalised.unfitRows.length });
     let zero = 0;
     for (let i = 0; i < flatMask.length; i++) if (flatMask[i]! & MASK_BITS.zeroFlat) zero++;
@@ -116,9 +118,9 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     flatVariance = new Float32Array(width * height);
     flatMask = badInternal.data;
   }
-  // Dead now, unless a product shares their memory: the combined flat and the bad-column images.
+  // Dead now, unless a product shares their memory: the combined flat, the flat's smooth model and the bad-column images.
   const live = [masterBias, masterFlat, flatVariance, flatMask, arcTrim[0]!.data, arcTrim[0]!.mask];
-  const spareData = unshared([...spare, ...(combinedFlat ? [combinedFlat.data] : []), ...(combinedInternal ? [combinedInternal] : [])], live);
+  const spareData = unshared([...spare, ...[combinedFlat?.data, combinedInternal, flatModel].filter((a) => a != null)], live);
   const spareMask = unshared([badRaw, badInternal.data], live);
   for (const f of frames.arc.slice(1)) arcTrim.push(trimFrame(f, det, settings.overscanOrder, true, { data: spareData.pop(), mask: spareMask.pop() }));
 
@@ -136,6 +138,10 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     gain: det.gain, readNoiseE: det.readNoiseE,
   };
   if (arcExposures.length > 1) arc.rejected = arcCombined.rejected;
+  // The arc exposures after the first, consumed by the combination, and the unused spares are
+  // dead: pooled for the science frames.
+  const products = [masterBias, masterFlat, flatVariance, flatMask, arc.sci, arc.var, arc.mask];
+  giveBack(...unshared([...spareData, ...arcExposures.slice(1).flatMap((e) => [e.sci, e.var])], products), ...unshared([...spareMask, ...arcExposures.slice(1).map((e) => e.mask)], products));
   const product: CcdCalibration = {
     orientation, section: det.data, width, height, gain: det.gain, readNoiseE: det.readNoiseE,
     masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask, arc,

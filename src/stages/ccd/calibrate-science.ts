@@ -6,6 +6,7 @@
  */
 import { DiagnosticLog } from '../../diagnostics.js';
 import { InputError } from '../../errors.js';
+import { takeFloat32, takeUint16 } from '../../kernels/frame-pool.js';
 import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from '../../products/frame.js';
 import type { CcdCalibration } from './calibration.js';
 import { combineExposures, MAX_EXPOSURES } from './combine-exposures.js';
@@ -13,7 +14,8 @@ import { checkSameDetector, resolveDetector } from './detector.js';
 import { calibrateExposure, type ExposureCalibration } from './exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { laplacianClean } from './laplacian-clean.js';
-import { trimFrame } from './overscan.js';
+import { overscanLevel, trimFrame } from './overscan.js';
+import { calibrateRawExposure } from './raw-exposure.js';
 import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 /** Mask bits that keep a pixel out of the Laplacian detection and of the replacement medians. */
@@ -53,7 +55,14 @@ export function calibrateScience(science: RawFrame[], cal: Omit<CcdCalibration, 
   });
   const det = cal.reference.detector;
   const exposureCal: ExposureCalibration = cal;
-  const exposures = science.map((f) => calibrateExposure(trimFrame(f, det, settings.overscanOrder), exposureCal));
+  // Each exposure in pooled dead frames where there are any (every value is overwritten): in the
+  // usual orientation straight from the raw pixels, else through a trimmed frame that is reoriented.
+  const n = (det.data.x1 - det.data.x0) * (det.data.y1 - det.data.y0);
+  const same = !cal.orientation.transpose && !cal.orientation.flipX;
+  const exposures = science.map((f) => {
+    if (same) return calibrateRawExposure(f, det, overscanLevel(f, det, settings.overscanOrder), exposureCal, { sci: takeFloat32(n), var: takeFloat32(n), mask: takeUint16(n) });
+    return calibrateExposure(trimFrame(f, det, settings.overscanOrder, true, { data: takeFloat32(n), mask: takeUint16(n) }), exposureCal);
+  });
   const combined = combineExposures(exposures, infos.map((e) => e.exptimeS), exposureCal, settings);
   const frame: CalibratedFrame = {
     width: cal.width, height: cal.height, sci: combined.sci, var: combined.var, mask: combined.mask,

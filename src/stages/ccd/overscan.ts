@@ -67,21 +67,32 @@ export function trimLines(frame: RawFrame, det: Detector, level: OverscanLevel, 
   for (let y = y0; y < y1; y++) {
     const from = (y + s.y0) * frame.width + s.x0;
     const to = (y - y0) * width;
-    // One pass per line: level subtracted and saturation marked together.
-    if (byColumn) {
-      for (let x = 0; x < width; x++) {
-        const v = src[from + x]!;
-        out[to + x] = v - byColumn[x]!;
-        if (mask && v >= sat) mask[to + x] = MASK_BITS.saturated;
-      }
-    } else {
-      const rowLevel = level.along === 'y' ? level.values[y + s.y0]! : 0;
-      for (let x = 0; x < width; x++) {
-        const v = src[from + x]!;
-        out[to + x] = v - rowLevel;
-        if (mask && v >= sat) mask[to + x] = MASK_BITS.saturated;
-      }
-    }
+    if (byColumn) trimByColumn(src, from, byColumn, out, to, width, mask, sat);
+    else if (mask) trimLineMasked(src, from, level.along === 'y' ? level.values[y + s.y0]! : 0, out, to, width, mask, sat);
+    else trimLine(src, from, level.along === 'y' ? level.values[y + s.y0]! : 0, out, to, width);
+  }
+}
+
+// One line each, in functions of one loop: the tests on the mask and the strip direction are
+// taken once per line, not per pixel. The level is subtracted and saturation marked in one pass.
+
+function trimLine(src: RawFrame['data'], from: number, level: number, out: Float32Array, to: number, width: number): void {
+  for (let x = 0; x < width; x++) out[to + x] = src[from + x]! - level;
+}
+
+function trimLineMasked(src: RawFrame['data'], from: number, level: number, out: Float32Array, to: number, width: number, mask: Uint16Array, sat: number): void {
+  for (let x = 0; x < width; x++) {
+    const v = src[from + x]!;
+    out[to + x] = v - level;
+    if (v >= sat) mask[to + x] = MASK_BITS.saturated;
+  }
+}
+
+function trimByColumn(src: RawFrame['data'], from: number, byColumn: Float64Array, out: Float32Array, to: number, width: number, mask: Uint16Array | null, sat: number): void {
+  for (let x = 0; x < width; x++) {
+    const v = src[from + x]!;
+    out[to + x] = v - byColumn[x]!;
+    if (mask && v >= sat) mask[to + x] = MASK_BITS.saturated;
   }
 }
 
