@@ -121,7 +121,12 @@ export async function reduceRun(run: ResolvedRun, opts: ReduceOptions): Promise<
       if (pool) inPool.push(pool.submit(mine, result.calibration).then((os) => os.forEach((o, i) => void outcomes.set(mine[i]!.target.name, o))));
       else for (const j of mine) inThisThread.push([j, result.calibration]);
     }
-    for (const [j, cal] of inThisThread) outcomes.set(j.target.name, executeTargetJob(j, cal, emit));
+    // The last target of a setup here may shift the arc's wavelengths in place: no one reads them after it
+    // (the cache was given a copy without them; a worker's calibration may share memory, so only here).
+    inThisThread.forEach(([j, cal], i) => {
+      const lastUse = !inThisThread.slice(i + 1).some(([, later]) => later === cal);
+      outcomes.set(j.target.name, executeTargetJob(j, cal, emit, lastUse));
+    });
     pool?.workHere();
     await Promise.all(inPool);
   } finally {

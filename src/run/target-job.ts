@@ -74,7 +74,8 @@ export function failedOutcome(job: TargetJob, code: string, reason: string, stag
   };
 }
 
-export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, emit: EventSink): TargetOutcome {
+/** `lastUse`: no later target reads `calibration`'s per-pixel wavelengths (see runTargetStages). */
+export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, emit: EventSink, lastUse = false): TargetOutcome {
   const now = () => (Date.now() - job.runStartMs) / 1000;
   const started = new Date();
   emit({ type: 'target-start', t: now(), target: job.target.name });
@@ -95,7 +96,7 @@ export function executeTargetJob(job: TargetJob, calibration: SetupCalibration, 
   const diagnostics = () => [...calibration.diagnostics, ...timer.diagnostics];
   let outcome: TargetOutcome;
   try {
-    const products = runTargetStages(job, calibration, timer);
+    const products = runTargetStages(job, calibration, timer, lastUse);
     provenance.settings['stages'] = products.settings;
     const files = timer.step('write', () => writeTargetProducts(job, calibration, products, diagnostics(), provenance));
     const provenanceFile = writeProvenance(job, { ...provenance, stagesMs: timer.ms, startedUtc: started.toISOString(), finishedUtc: new Date().toISOString() });

@@ -1,4 +1,4 @@
-import { existsSync, readdirSync, readFileSync, statSync, truncateSync, writeFileSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync, rmSync, statSync, truncateSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { RunEvent } from '../../src/run/events.js';
@@ -114,6 +114,21 @@ describe('reduceRun on a simulated two-target night', () => {
     expect([...r.outcomes.keys()]).toEqual([run.targets[1]!.name]);
     expect(r.summary.targets.map((t) => t.status)).toEqual(['not-run', 'ok']);
     await expect(reduceRun(run, { jobs: 1, only: ['Nobody'] })).rejects.toThrow(/no target named 'Nobody'/);
+  });
+
+  it('the last target of a setup, which shifts the arc wavelengths in place, leaves the earlier one as when run alone', async () => {
+    // jobs 1: the first target shifts a new array, the last one the setup's own (nothing reads it after)
+    const both = copyOfSimulatedRun(TWO, 'both');
+    const alone = copyOfSimulatedRun(TWO, 'alone');
+    const run = loadManifest(join(both, 'run.yaml'));
+    await reduceRun(run, { jobs: 1 });
+    for (const t of run.targets) {
+      rmSync(join(alone, 'products'), { recursive: true, force: true });
+      await reduceRun(loadManifest(join(alone, 'run.yaml')), { jobs: 1, only: [t.folder] });
+      const files = listFiles(join(alone, 'products', t.folder), isTimedOrState);
+      expect(files.length).toBeGreaterThanOrEqual(3);
+      for (const f of files) expect(readBytes(join(both, 'products', t.folder), f).equals(readBytes(join(alone, 'products', t.folder), f)), f).toBe(true);
+    }
   });
 
   it.skipIf(!WORKERS_OK)('gives byte-identical products with --jobs 1 and --jobs 2 (worker threads)', async () => {

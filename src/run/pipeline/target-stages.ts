@@ -53,7 +53,11 @@ export interface TargetProducts {
   settings: TargetStageSettings;
 }
 
-export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: StageTimer): TargetProducts {
+/**
+ * `lastUse`: no target after this one reads `cal`'s per-pixel wavelengths, so the flexure stage
+ * shifts them in place instead of into a new full-frame array.
+ */
+export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: StageTimer, lastUse = false): TargetProducts {
   const settings: TargetStageSettings = {
     ccd: cal.settings.ccd,
     flexure: { ...DEFAULT_FLEXURE_SETTINGS },
@@ -62,7 +66,7 @@ export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: St
     velocity: velocitySettingsFor(job.setup, job.target),
     geometry: geometryInputFor(job.setup, job.target),
   };
-  const { solution, sky } = skySubtractedScience(job, cal, settings, timer);
+  const { solution, sky } = skySubtractedScience(job, cal, settings, timer, lastUse);
   const lines = timer.stage(TARGET_STAGES[4], () => measureLines(sky.frame, solution, sky.sky, settings.lines));
   const velocities = timer.stage(TARGET_STAGES[5], () => computeVelocities(lines, sky.frame, settings.velocity));
   const curve = timer.stage(TARGET_STAGES[6], () => buildRotationCurve(velocities, lines, settings.geometry));
@@ -73,9 +77,9 @@ export function runTargetStages(job: TargetJob, cal: SetupCalibration, timer: St
  * The stages up to the sky, in a function of their own so that the raw frames and the frame
  * before sky subtraction can be freed once it returns (full-size frames are tens of MB each).
  */
-function skySubtractedScience(job: TargetJob, cal: SetupCalibration, settings: TargetStageSettings, timer: StageTimer) {
+function skySubtractedScience(job: TargetJob, cal: SetupCalibration, settings: TargetStageSettings, timer: StageTimer, lastUse: boolean) {
   const science = calibratedScience(job, cal, settings, timer);
-  const solution = timer.stage(TARGET_STAGES[2], () => measureFlexure(science, cal.solution, skyLines(), settings.flexure));
+  const solution = timer.stage(TARGET_STAGES[2], () => measureFlexure(science, cal.solution, skyLines(), settings.flexure, lastUse ? cal.solution.wave : undefined));
   // Nothing reads the frame before sky subtraction after this stage: its variance array takes the result.
   const sky = timer.stage(TARGET_STAGES[3], () => subtractSky(science, solution, settings.sky, science.var));
   return { solution, sky };

@@ -46,6 +46,24 @@ describe('measureFlexure', () => {
     expect(d.message).toMatch(/disagree with the arc solution by \d+\.\d sigma/);
   });
 
+  it('writes the shifted wavelengths into the array given, which may be the arc solution\'s own, bit for bit as into a new one', () => {
+    const sci = syntheticSky(arc.setup, { seed: 41, shiftAngstrom: 0.4 });
+    const before = solution.wave.slice();
+    const fresh = measureFlexure(sci, solution, skyLines(), DEFAULT_FLEXURE_SETTINGS).product;
+    // the default path leaves the arc's wavelengths alone and shares no memory with them
+    expect(Buffer.from(solution.wave.buffer).equals(Buffer.from(before.buffer))).toBe(true);
+    expect(fresh.wave.buffer).not.toBe(solution.wave.buffer);
+    const arcCopy = { ...solution, wave: solution.wave.slice() };
+    const inPlace = measureFlexure(sci, arcCopy, skyLines(), DEFAULT_FLEXURE_SETTINGS, arcCopy.wave).product;
+    expect(inPlace.wave).toBe(arcCopy.wave);
+    expect(inPlace.flexure).toEqual(fresh.flexure);
+    expect(Buffer.from(inPlace.wave.buffer).equals(Buffer.from(fresh.wave.buffer))).toBe(true);
+    // a reused array with other values in it is overwritten in full
+    const stale = new Float64Array(solution.wave.length).fill(NaN);
+    const reused = measureFlexure(sci, solution, skyLines(), DEFAULT_FLEXURE_SETTINGS, stale).product;
+    expect(Buffer.from(reused.wave.buffer).equals(Buffer.from(fresh.wave.buffer))).toBe(true);
+  });
+
   it('leaves the galaxy rows out: a bright galaxy with an emission line on top of a sky line does not bias the shift', () => {
     const galaxy = { rows: [120, 180] as [number, number], continuum: 400, line: { wavelength: 6863.955 + 1.0, electrons: 20000 } };
     const sci = syntheticSky(arc.setup, { seed: 41, shiftAngstrom: 0.2, galaxy });
