@@ -36,13 +36,28 @@ export class Correlator {
 
   /** c(k) for k = -maxLag..maxLag into out[k + maxLag] (out has length 2 maxLag + 1). */
   correlate(b: ArrayLike<number>, maxLag: number, out = new Float64Array(2 * maxLag + 1)): Float64Array {
-    if (2 * maxLag + 1 > this.size) throw new RangeError(`Correlator: maxLag ${maxLag} too large for size ${this.size}`);
+    return this.correlateTransformed(this.transform(b, this.spectrum), maxLag, out);
+  }
+
+  /**
+   * The spectrum of `b` (zero-padded to `size`) that correlateTransformed takes, into `out`; the
+   * same for every Correlator of this size, so one transform serves several references.
+   */
+  transform(b: ArrayLike<number>, out: number[] = this.fft.createComplexArray()): number[] {
+    if (b.length > this.size) throw new RangeError(`Correlator: ${b.length} values for size ${this.size}`);
     this.input.fill(0);
     for (let i = 0; i < b.length; i++) this.input[i] = b[i]!;
-    this.fft.realTransform(this.spectrum, this.input);
-    this.fft.completeSpectrum(this.spectrum);
+    this.fft.realTransform(out, this.input);
+    this.fft.completeSpectrum(out);
+    return out;
+  }
+
+  /** As correlate, for `b` given by its spectrum from transform (of a Correlator of the same size). */
+  correlateTransformed(spectrum: number[], maxLag: number, out = new Float64Array(2 * maxLag + 1)): Float64Array {
+    if (2 * maxLag + 1 > this.size) throw new RangeError(`Correlator: maxLag ${maxLag} too large for size ${this.size}`);
+    if (spectrum.length !== 2 * this.size) throw new RangeError(`Correlator: spectrum of ${spectrum.length / 2} values for size ${this.size}`);
     // A(f) conj(B(f)) transforms back to sum_i a[i + k] b[i] at index k (mod size).
-    multiplyConjugate(this.refSpectrum, this.spectrum, this.product, this.size);
+    multiplyConjugate(this.refSpectrum, spectrum, this.product, this.size);
     this.fft.inverseTransform(this.back, this.product);
     for (let k = -maxLag; k <= maxLag; k++) out[k + maxLag] = this.back[2 * ((k + this.size) % this.size)]!;
     return out;

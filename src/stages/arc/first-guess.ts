@@ -60,29 +60,35 @@ export function linearGuesses(input: GuessInputs, lines: LampLine[]): LinearGues
   const iMax = Math.max(...lines.map((l) => l.intensity), 1e-30);
   const synthetic = new Float64Array(nBins + 2 * maxLag);
   const corr = new Float64Array(4 * maxLag + 1);
-  const trials: LinearGuess[] = [];
-  for (const flipped of [false, true]) {
+  // The synthetic arc of a trial does not depend on the direction: drawn and transformed once for both.
+  const directions = [false, true].map((flipped) => {
     const observed = new Float64Array(nBins);
     input.peakX.forEach((x, i) => drawGaussian(observed, (flipped ? width - 1 - x : x) / bin, sigmaBins, Math.sqrt(Math.max(input.peakHeight[i]!, 0) / hMax)));
-    const correlator = new Correlator(observed, synthetic.length);
-    for (let t = 0; t < nTrials; t++) {
-      const d = dMin * Math.pow(1 + relStep, t);
-      synthetic.fill(0);
-      let norm = 0;
-      for (const l of lines) {
-        const pos = (xc + (l.wavelength - lambda0) / d) / bin + maxLag;
-        if (pos < -4 * sigmaBins || pos > synthetic.length + 4 * sigmaBins) continue;
-        drawGaussian(synthetic, pos, sigmaBins, Math.sqrt(l.intensity / iMax));
-      }
-      for (let i = 0; i < synthetic.length; i++) norm += synthetic[i]! * synthetic[i]!;
-      if (!(norm > 0)) continue;
-      correlator.correlate(synthetic, 2 * maxLag, corr);
+    return { flipped, correlator: new Correlator(observed, synthetic.length), trials: [] as LinearGuess[] };
+  });
+  let spectrum: number[] | undefined;
+  for (let t = 0; t < nTrials; t++) {
+    const d = dMin * Math.pow(1 + relStep, t);
+    synthetic.fill(0);
+    let norm = 0;
+    for (const l of lines) {
+      const pos = (xc + (l.wavelength - lambda0) / d) / bin + maxLag;
+      if (pos < -4 * sigmaBins || pos > synthetic.length + 4 * sigmaBins) continue;
+      drawGaussian(synthetic, pos, sigmaBins, Math.sqrt(l.intensity / iMax));
+    }
+    for (let i = 0; i < synthetic.length; i++) norm += synthetic[i]! * synthetic[i]!;
+    if (!(norm > 0)) continue;
+    spectrum = directions[0]!.correlator.transform(synthetic, spectrum);
+    for (const { flipped, correlator, trials } of directions) {
+      correlator.correlateTransformed(spectrum, 2 * maxLag, corr);
       // lag k of the correlation puts synthetic bin i at observed bin i + k, i.e. a shift s = k + maxLag bins
       const peak = correlationPeak(corr.subarray(0, 2 * maxLag + 1), maxLag);
       const shiftPx = peak.lag * bin;
       trials.push({ flipped, dispersion: d, centreWavelength: lambda0 - shiftPx * d, score: peak.value / Math.sqrt(norm) });
     }
   }
+  // in the order of one direction after the other, so that the stable sort breaks ties as before
+  const trials = directions.flatMap((dir) => dir.trials);
   trials.sort((a, b) => b.score - a.score);
   const picked: LinearGuess[] = [];
   for (const t of trials) {
