@@ -93,8 +93,6 @@ export function fitGroup(win: Window, spec: GroupSpec, guess: GroupGuess, option
     fluxErr.push(spec.fluxFactor[k]! * err(fi));
     fluxAtBound.push(r.atBound[fi]!);
   });
-  const out = new Float64Array(m);
-  model.evaluate(r.params, win.wave, out, new Float64Array(m * n));
   return {
     centre: r.params[0]!,
     centreErr: err(0),
@@ -107,6 +105,6 @@ export function fitGroup(win: Window, spec: GroupSpec, guess: GroupGuess, option
     converged: r.converged,
     shapeAtBound: r.atBound[0]! || (!held && r.atBound[1]!),
     fluxAtBound,
-    model: out,
+    model: r.model,
   };
 }

@@ -51,30 +51,39 @@ export class GroupModel implements LmModel {
     const members = fluxIndex.length;
     const c0 = p[this.c0Index]!;
     const c1 = p[this.c0Index + 1]!;
+    const q = this.q;
+    const pixelWidth = this.pixelWidth;
+    const fluxStart = this.fluxStart;
+    const lambdaRef = this.lambdaRef;
     for (let i = 0; i < x.length; i++) {
       const row = i * n;
       for (let k = 0; k < n; k++) jac[row + k] = 0;
       const l = x[i]!;
-      const dl = this.pixelWidth[i]!;
-      let m = c0 + c1 * (l - this.lambdaRef);
+      const dl = pixelWidth[i]!;
+      let m = c0 + c1 * (l - lambdaRef);
+      // The centre and width derivatives sum in locals (from 0, in the same order as in the row).
+      let dMu = 0;
+      let dS = 0;
       for (let k = 0; k < members; k++) {
-        const qk = this.q[k]!;
+        const qk = q[k]!;
         const sk = s * qk;
         const d = l - mu * qk;
         // Beyond 7 sigma a line adds less than 3e-11 of its peak: skip the exponential.
         if (d * d > 49 * sk * sk) continue;
         const shape = dl * INV_ROOT_2PI * Math.exp((-0.5 * d * d) / (sk * sk)) / sk;
-        const fi = this.fluxStart + fluxIndex[k]!;
+        const fi = fluxStart + fluxIndex[k]!;
         const flux = fluxFactor[k]! * p[fi]!;
         const g = flux * shape;
         m += g;
-        jac[row] += ((g * d) / (sk * sk)) * qk;
-        if (free) jac[row + 1] += g * ((d * d) / (sk * sk * sk) - 1 / sk) * qk;
+        dMu += ((g * d) / (sk * sk)) * qk;
+        if (free) dS += g * ((d * d) / (sk * sk * sk) - 1 / sk) * qk;
         jac[row + fi] += fluxFactor[k]! * shape;
       }
       model[i] = m;
+      jac[row] = dMu;
+      if (free) jac[row + 1] = dS;
       jac[row + this.c0Index] = 1;
-      jac[row + this.c0Index + 1] = l - this.lambdaRef;
+      jac[row + this.c0Index + 1] = l - lambdaRef;
     }
   }
 }
