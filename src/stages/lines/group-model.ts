@@ -27,6 +27,10 @@ export class GroupModel implements LmModel {
   readonly fluxStart: number;
   readonly c0Index: number;
   private readonly q: Float64Array;
+  /** Whether the width is fitted, and the held width (0 when fitted): always a number, so the
+   * field keeps one representation and a held fit does not deoptimise evaluate. */
+  private readonly free: boolean;
+  private readonly held: number;
 
   constructor(
     readonly spec: GroupSpec,
@@ -36,7 +40,12 @@ export class GroupModel implements LmModel {
     /** Held observed sigma of member 0 (Angstrom), or undefined to fit it. */
     readonly fixedSigma: number | undefined,
   ) {
-    this.q = Float64Array.from(spec.rest, (r) => r / spec.rest[0]!);
+    // A loop: Float64Array.from with a mapping function takes V8's slow iterator path.
+    const q = new Float64Array(spec.rest.length);
+    for (let k = 0; k < q.length; k++) q[k] = spec.rest[k]! / spec.rest[0]!;
+    this.q = q;
+    this.free = fixedSigma === undefined;
+    this.held = fixedSigma ?? 0;
     this.fluxStart = fixedSigma === undefined ? 2 : 1;
     this.c0Index = this.fluxStart + spec.nFree;
     this.nParams = this.c0Index + 2;
@@ -44,9 +53,10 @@ export class GroupModel implements LmModel {
 
   evaluate(p: Float64Array, x: Float64Array, model: Float64Array, jac: Float64Array): void {
     const n = this.nParams;
-    const free = this.fixedSigma === undefined;
+    const free = this.free;
     const mu = p[0]!;
-    const s = free ? p[1]! : this.fixedSigma!;
+    const held = this.held;
+    const s = free ? p[1]! : held;
     const { fluxIndex, fluxFactor } = this.spec;
     const members = fluxIndex.length;
     const c0 = p[this.c0Index]!;
