@@ -31,6 +31,8 @@ export interface LmResult {
   params: Float64Array;
   /** (J^T W J)^-1 at the solution, row-major nParams x nParams; NaN when singular. Not scaled by chi2/dof. */
   covariance: Float64Array;
+  /** The model at the solution (what evaluate gives at params), so a caller need not evaluate it again. */
+  model: Float64Array;
   /** sum w (y - model)^2 at the solution. */
   chi2: number;
   /** Points with positive weight minus the number of parameters. */
@@ -202,7 +204,7 @@ export function levenbergMarquardt(
     for (let i = 0; i < m; i++) if (weights[i]! > 0) used++;
     const atBound: boolean[] = [];
     for (let k = 0; k < n; k++) atBound.push((lower !== undefined && p[k]! <= lower[k]!) || (upper !== undefined && p[k]! >= upper[k]!));
-    return { params: Float64Array.from(p), covariance, chi2, dof: used - n, iterations, converged, atBound };
+    return { params: Float64Array.from(p), covariance, model: f.slice(), chi2, dof: used - n, iterations, converged, atBound };
   } finally {
     ws.busy = false;
   }
@@ -238,8 +240,12 @@ function normalEquations(jac: Float64Array, y: Float64Array, f: Float64Array, w:
     for (let k = 0; k < n; k++) {
       const jk = jac[row + k]!;
       g[k] += jk * r;
+      // A zero derivative (a line's flux far from it) adds only zeros to its row: a + 0 is a
+      // (the sums start at +0 and never become -0), so skipping it changes no bit.
+      if (jk === 0) continue;
       const wj = wi * jk;
-      for (let l = 0; l <= k; l++) a[k * n + l] += wj * jac[row + l]!;
+      const ak = k * n;
+      for (let l = 0; l <= k; l++) a[ak + l] += wj * jac[row + l]!;
     }
   }
   for (let k = 0; k < n; k++) for (let l = 0; l < k; l++) a[l * n + k] = a[k * n + l]!;

@@ -100,4 +100,51 @@ describe('levenbergMarquardt', () => {
   it('rejects arrays of different lengths', () => {
     expect(() => levenbergMarquardt(decayModel, new Float64Array(3), new Float64Array(2), new Float64Array(3), new Float64Array(2))).toThrow(RangeError);
   });
+  it('returns the model at the solution in memory of its own (the same values evaluate gives)', () => {
+    const { x, y, w } = arrays(decay);
+    const start = Float64Array.of(decay.initial.a, decay.initial.b);
+    const r = levenbergMarquardt(decayModel, x, y, w, start);
+    const expected = new Float64Array(x.length);
+    decayModel.evaluate(r.params, x, expected, new Float64Array(2 * x.length));
+    expect(Array.from(r.model)).toEqual(Array.from(expected));
+    // chi2 is that of the returned model's residuals.
+    let chi2 = 0;
+    for (let i = 0; i < x.length; i++) chi2 += w[i]! * (y[i]! - r.model[i]!) * (y[i]! - r.model[i]!);
+    expect(chi2).toBe(r.chi2);
+    const again = levenbergMarquardt(decayModel, x, y, w, start);
+    expect(again.model).not.toBe(r.model);
+    expect(again.model.buffer).not.toBe(r.model.buffer);
+    expect(Array.from(again.model)).toEqual(Array.from(r.model));
+  });
+
+  it('fits a model whose Jacobian has exact zeros (a line far from most points) as scipy curve_fit does', () => {
+    // a exp(-(x - mu)^2 / 2 s^2) + c with the line's derivatives exactly 0 beyond 7 sigma (as the
+    // line-group model has them), so the normal equations skip zero rows for most points.
+    const line: LmModel = {
+      nParams: 4,
+      evaluate(p, x, model, jac) {
+        for (let i = 0; i < x.length; i++) {
+          const d = x[i]! - p[1]!;
+          const s = p[2]!;
+          const e = d * d > 49 * s * s ? 0 : Math.exp((-0.5 * d * d) / (s * s));
+          model[i] = p[0]! * e + p[3]!;
+          jac[4 * i] = e;
+          jac[4 * i + 1] = (p[0]! * e * d) / (s * s);
+          jac[4 * i + 2] = (p[0]! * e * d * d) / (s * s * s);
+          jac[4 * i + 3] = 1;
+        }
+      },
+    };
+    const x = Float64Array.from({ length: 100 }, (_, i) => i);
+    const y = Float64Array.from(x, (xi) => 100 * Math.exp(-0.5 * ((xi - 30) / 2) ** 2) + 10 + 0.5 * Math.sin(xi));
+    const r = levenbergMarquardt(line, x, y, new Float64Array(100).fill(1), Float64Array.of(80, 31, 2.5, 9));
+    // scipy.optimize.curve_fit (Debian python3-scipy 1.x), same data, p0 and unit sigma, absolute_sigma.
+    const params = [99.58708398006634, 30.00116976895327, 2.0134846297364373, 9.988935127954347];
+    const errors = [0.6526170328276837, 0.015135527988956291, 0.015435025606567423, 0.10582537701212955];
+    expect(r.converged).toBe(true);
+    for (let k = 0; k < 4; k++) {
+      expect(Math.abs(r.params[k]! - params[k]!)).toBeLessThan(1e-3 * errors[k]!);
+      expect(Math.sqrt(r.covariance[5 * k]!) / errors[k]!).toBeCloseTo(1, 3);
+    }
+  });
 });

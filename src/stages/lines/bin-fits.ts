@@ -58,8 +58,15 @@ function fitOneGroup(bin: BinSpectrum, spec: GroupSpec, state: VelocityState, se
   const sigma = Math.max((state.sigmaKms / C) * centre, instRef);
   const tolerance = (settings.velocityToleranceKms / C) * centre;
   const half = settings.windowSigmas * sigma + tolerance;
-  const lo = Math.min(...centres) - half;
-  const hi = Math.max(...centres) + half;
+  // Loops, not Math.min(...centres): spreading a typed array takes the iterator protocol.
+  let first = centres[0]!;
+  let last = centres[0]!;
+  for (let k = 1; k < nMembers; k++) {
+    first = Math.min(first, centres[k]!);
+    last = Math.max(last, centres[k]!);
+  }
+  const lo = first - half;
+  const hi = last + half;
   if (lo < bin.wave[bin.x0]! || hi > bin.wave[bin.x1 - 1]!) return null;
   const x0 = lowerIndex(bin.wave, lo);
   const x1 = lowerIndex(bin.wave, hi);
@@ -88,9 +95,9 @@ function fitOneGroup(bin: BinSpectrum, spec: GroupSpec, state: VelocityState, se
   // Starting fluxes from the quick estimate at the expected places; the continuum from the window's median.
   const view = { wave: win.wave, pixelWidth: win.pixelWidth, sci: win.data, var: bin.var.subarray(x0, x1), bad: excluded };
   const fluxes = new Array<number>(spec.nFree).fill(0);
-  spec.members.forEach((_, k) => {
+  for (let k = 0; k < nMembers; k++) {
     if (spec.fluxFactor[k] === 1) fluxes[spec.fluxIndex[k]!] = Math.max(0, quickFlux(view, centres[k]!, sigma).flux);
-  });
+  }
   const c0 = median(win.data);
   const maxSigma = Math.hypot(instRef, (settings.maxDispersionKms / C) * centre);
   const centreRange: [number, number] = [centre - tolerance, centre + tolerance];

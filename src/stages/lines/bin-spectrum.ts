@@ -68,39 +68,19 @@ export class BinSpectrum {
 
   /** Add row y with wavelength weight `weight` (> 0; the row's line flux, or 1). */
   addRow(y: number, weight: number): void {
-    const { width, sci, var: variance, mask } = this.frame;
-    const row = y * width;
-    for (let x = this.x0; x < this.x1; x++) {
-      const i = row + x;
-      const v = variance[i]!;
-      if ((mask[i]! & this.badBits) !== 0 || !(v > 0) || !Number.isFinite(sci[i]!)) this.bad[x] = 1;
-      else {
-        this.sci[x] += sci[i]!;
-        this.var[x] += v;
-      }
-      this.waveSum[x] += weight * this.frameWave[i]!;
-    }
+    addPixels(this.frame, this.frameWave, this.badBits, y, weight, this.x0, this.x1, this.sci, this.var, this.bad, this.waveSum);
     this.weightSum += weight;
     this.rowSum += weight * y;
-    if (this.rows === 0) {
-      this.rowStart = y;
-      this.rowEnd = y;
-    } else {
-      this.rowStart = Math.min(this.rowStart, y);
-      this.rowEnd = Math.max(this.rowEnd, y);
-    }
+    // Both bounds computed on every row: a first-row-only path would deoptimise this method
+    // the first time a second row arrives.
+    const first = this.rows === 0;
+    const lo = Math.min(this.rowStart, y);
+    const hi = Math.max(this.rowEnd, y);
+    this.rowStart = first ? y : lo;
+    this.rowEnd = first ? y : hi;
     this.rows++;
-    this.finish();
-  }
-
-  private finish(): void {
-    const { x0, x1 } = this;
-    for (let x = x0; x < x1; x++) this.wave[x] = this.waveSum[x]! / this.weightSum;
-    for (let x = x0; x < x1; x++) {
-      const lo = this.wave[Math.max(x0, x - 1)]!;
-      const hi = this.wave[Math.min(x1 - 1, x + 1)]!;
-      this.pixelWidth[x] = (hi - lo) / (x === x0 || x === x1 - 1 ? 1 : 2);
-    }
+    meanWave(this.waveSum, this.weightSum, this.x0, this.x1, this.wave);
+    pixelWidths(this.wave, this.x0, this.x1, this.pixelWidth);
     this.yCentre = this.rowSum / this.weightSum;
   }
 
@@ -117,5 +97,37 @@ export class BinSpectrum {
       else hi = mid;
     }
     return lo + (lambda - w[lo]!) / (w[hi]! - w[lo]!);
+  }
+}
+
+// The pixel loops are functions of their own: code after a long loop in the same function was
+// compiled on the stack mid-loop without feedback, and deoptimised when first reached.
+
+/** Sum row y's good pixels of columns [x0, x1) into sci and var (marking bad columns), its weighted wavelengths into waveSum. */
+function addPixels(frame: CalibratedFrame, frameWave: Float64Array, badBits: number, y: number, weight: number, x0: number, x1: number, sciSum: Float64Array, varSum: Float64Array, bad: Uint8Array, waveSum: Float64Array): void {
+  const { width, sci, var: variance, mask } = frame;
+  const row = y * width;
+  for (let x = x0; x < x1; x++) {
+    const i = row + x;
+    const v = variance[i]!;
+    if ((mask[i]! & badBits) !== 0 || !(v > 0) || !Number.isFinite(sci[i]!)) bad[x] = 1;
+    else {
+      sciSum[x] += sci[i]!;
+      varSum[x] += v;
+    }
+    waveSum[x] += weight * frameWave[i]!;
+  }
+}
+
+function meanWave(waveSum: Float64Array, weightSum: number, x0: number, x1: number, wave: Float64Array): void {
+  for (let x = x0; x < x1; x++) wave[x] = waveSum[x]! / weightSum;
+}
+
+/** Width of each column: half the distance between its neighbours (one-sided at the ends). */
+function pixelWidths(wave: Float64Array, x0: number, x1: number, pixelWidth: Float64Array): void {
+  for (let x = x0; x < x1; x++) {
+    const lo = wave[Math.max(x0, x - 1)]!;
+    const hi = wave[Math.min(x1 - 1, x + 1)]!;
+    pixelWidth[x] = (hi - lo) / (x === x0 || x === x1 - 1 ? 1 : 2);
   }
 }

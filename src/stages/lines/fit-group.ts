@@ -69,12 +69,16 @@ export function fitGroup(win: Window, spec: GroupSpec, guess: GroupGuess, option
   const start = new Float64Array(n);
   const lower = new Float64Array(n).fill(-Infinity);
   const upper = new Float64Array(n).fill(Infinity);
+  // Index access, not destructuring: destructuring takes the iterator protocol, which made this
+  // function several times larger to compile.
   start[0] = guess.centre;
-  [lower[0], upper[0]] = options.centreRange;
+  lower[0] = options.centreRange[0];
+  upper[0] = options.centreRange[1];
   const held = options.fixedSigma !== undefined;
   if (!held) {
     start[1] = Math.min(Math.max(guess.sigma, options.sigmaRange[0]), options.sigmaRange[1]);
-    [lower[1], upper[1]] = options.sigmaRange;
+    lower[1] = options.sigmaRange[0];
+    upper[1] = options.sigmaRange[1];
   }
   for (let j = 0; j < spec.nFree; j++) {
     start[model.fluxStart + j] = Math.max(guess.fluxes[j] ?? 0, 0);
@@ -87,14 +91,12 @@ export function fitGroup(win: Window, spec: GroupSpec, guess: GroupGuess, option
   const flux: number[] = [];
   const fluxErr: number[] = [];
   const fluxAtBound: boolean[] = [];
-  spec.members.forEach((_, k) => {
+  for (let k = 0; k < spec.members.length; k++) {
     const fi = model.fluxStart + spec.fluxIndex[k]!;
     flux.push(spec.fluxFactor[k]! * r.params[fi]!);
     fluxErr.push(spec.fluxFactor[k]! * err(fi));
     fluxAtBound.push(r.atBound[fi]!);
-  });
-  const out = new Float64Array(m);
-  model.evaluate(r.params, win.wave, out, new Float64Array(m * n));
+  }
   return {
     centre: r.params[0]!,
     centreErr: err(0),
@@ -107,6 +109,6 @@ export function fitGroup(win: Window, spec: GroupSpec, guess: GroupGuess, option
     converged: r.converged,
     shapeAtBound: r.atBound[0]! || (!held && r.atBound[1]!),
     fluxAtBound,
-    model: out,
+    model: r.model,
   };
 }
