@@ -40,36 +40,22 @@ export function calibrateRawExposure(frame: RawFrame, det: Detector, level: Over
     src: frame.data, sat: det.saturationAdu, g: cal.gain, rn2: cal.readNoiseE * cal.readNoiseE,
     bias: cal.masterBias, flat: cal.masterFlat, flatMask: cal.flatMask, out: into,
   };
-  // level.values is indexed by raw y (column strip) or raw x (row strip), as in trimLines.
+  // level.values is indexed by raw y (column strip) or raw x (row strip), as in trimLines; a row
+  // strip's level (or none) is spread over a line so that one loop serves every strip.
   const byColumn = level.along === 'x' ? level.values.subarray(s.x0, s.x1) : null;
+  const lineLevels = byColumn ?? new Float64Array(width);
   for (let y = 0; y < height; y++) {
     const from = (y + s.y0) * frame.width + s.x0;
-    if (byColumn) columnLevelLine(c, from, y * width, width, byColumn);
-    else rowLevelLine(c, from, y * width, width, level.along === 'y' ? level.values[y + s.y0]! : 0);
+    if (!byColumn) lineLevels.fill(level.along === 'y' ? level.values[y + s.y0]! : 0);
+    calibrateLine(c, from, y * width, width, lineLevels);
   }
   return into;
 }
 
-// One line each, in functions of one loop (V8 compiles each once). The pixel arithmetic is
+// One line, in a function of one loop (V8 compiles it once). The pixel arithmetic is
 // calibrateExposure's; see there for the branch-free max(detected, 0).
 
-function rowLevelLine(c: LineInput, from: number, to: number, width: number, level: number): void {
-  const { src, sat, g, rn2, bias, flat, flatMask } = c;
-  const { sci, var: variance, mask } = c.out;
-  for (let x = 0; x < width; x++) {
-    const v = src[from + x]!;
-    const i = to + x;
-    const detected = (Math.fround(v - level) - bias[i]!) * g;
-    const f = flat[i]!;
-    sci[i] = detected / f;
-    const abs = Math.abs(detected);
-    const poisson = abs < 1e300 ? 0.5 * (detected + abs) : detected > 0 ? detected : 0;
-    variance[i] = (poisson + rn2) / (f * f);
-    mask[i] = (v >= sat ? MASK_BITS.saturated : 0) | flatMask[i]!;
-  }
-}
-
-function columnLevelLine(c: LineInput, from: number, to: number, width: number, levels: Float64Array): void {
+function calibrateLine(c: LineInput, from: number, to: number, width: number, levels: Float64Array): void {
   const { src, sat, g, rn2, bias, flat, flatMask } = c;
   const { sci, var: variance, mask } = c.out;
   for (let x = 0; x < width; x++) {
