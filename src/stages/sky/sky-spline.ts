@@ -15,12 +15,10 @@ import { evalLegendre1D } from '../../kernels/legendre.js';
 import { fitLegendre1D } from '../../kernels/legendre-fit.js';
 import { medianOfBuffer } from '../../kernels/robust.js';
 import type { CalibratedFrame } from '../../products/frame.js';
+import { addPenalty, BAND } from './spline-penalty.js';
 
 const B = UniformCubicBSpline;
 
-/** Penalty weight relative to the mean diagonal of the normal matrix (small: fills gaps, hardly bends fitted parts). */
-const PENALTY = 1e-6;
-const BAND = 3;
 /** Rows between those that set the slit factor g: g is smooth along the slit and each row's median is already precise. */
 const SLIT_ROW_STEP = 4;
 
@@ -189,40 +187,6 @@ function addRow(input: SkyFitInput, spline: UniformCubicBSpline, g: number, y: n
     normal[a + 14] += w3 * b1;
     normal[a + 15] += w3 * b0;
   }
-}
-
-/**
- * Add PENALTY * mean diagonal * D^T D, D the second-difference operator on the coefficients.
- * One loop per function: V8 compiles a long loop on the fly, and code after it in the same
- * function would have no type feedback yet and send every later call back to the interpreter.
- */
-function addPenalty(normal: Float64Array, n: number): void {
-  const kappa = penaltyWeight(normal, n);
-  addSecondDifferences(normal, n, kappa);
-  // An empty stretch at the very ends is held by a tiny ridge so the system stays definite.
-  addRidge(normal, n, kappa * 1e-6);
-}
-
-function penaltyWeight(normal: Float64Array, n: number): number {
-  const w4 = BAND + 1;
-  let mean = 0;
-  for (let k = 0; k < n; k++) mean += normal[k * w4]!;
-  return (PENALTY * mean) / n || PENALTY;
-}
-
-const SECOND_DIFFERENCE = [1, -2, 1];
-
-function addSecondDifferences(normal: Float64Array, n: number, kappa: number): void {
-  const w4 = BAND + 1;
-  const d = SECOND_DIFFERENCE;
-  for (let r = 0; r + 2 < n; r++) {
-    for (let p = 0; p < 3; p++) for (let q = 0; q <= p; q++) normal[(r + p) * w4 + (p - q)] += kappa * d[p]! * d[q]!;
-  }
-}
-
-function addRidge(normal: Float64Array, n: number, ridge: number): void {
-  const w4 = BAND + 1;
-  for (let k = 0; k < n; k++) normal[k * w4] += ridge;
 }
 
 /**
