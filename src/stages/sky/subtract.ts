@@ -13,7 +13,7 @@ import { requireSameGrid } from '../arc/same-grid.js';
 import { emissionScore, galaxyRun, MEDIAN_STRIDE, rowMedians, rowsAbove } from './galaxy-rows.js';
 import type { SkySettings } from './settings.js';
 import { maskCoherentEmission } from './emission-mask.js';
-import { evaluateRow, fitSkySpline, subtractModel, subtractModelWithVariance, type SkySpline } from './sky-spline.js';
+import { evaluateRow, fitSkySpline, refitWithout, subtractModel, subtractModelWithVariance, type SkySpline } from './sky-spline.js';
 
 /** Mask bits that make a pixel unusable for the sky fit and the profiles. */
 /** Least emission score of a galaxy row: about one line with a 5-sigma peak three pixels wide (common practice for a detection floor). */
@@ -92,16 +92,21 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const use = new Uint8Array(good.length);
   let model = fit(frame, solution, good, skyRows, settings.order, settings, 1, use);
   if (model === null) throw new StageError('sky', 'no-sky', `too few good sky pixels to fit the sky (${nSky} sky rows); name more rows of clean sky (sky_rows in the manifest, regions in the sky settings)`);
-  // Faint emission coherent along the slit in the sky rows: masked, and the sky fitted again. The
-  // model took up part of that emission, so the residual understates it: a few rounds.
+  // Faint emission coherent along the slit in the sky rows: masked, and the sky fitted again
+  // without it. The model took up part of that emission, so the residual understates it: a few
+  // rounds. The slit factor is held: a row's median ratio hardly moves when a few of its
+  // thousands of pixels go.
   let masked = 0;
   const emissionPixels = new Uint8Array(good.length);
-  for (let round = 0; round < EMISSION_ROUNDS; round++) {
+  const input = { width, height, sci: inSci, var: inVar, wave, use };
+  for (let round = 1; round <= EMISSION_ROUNDS; round++) {
     subtractModel(model, wave, inSci, width, skyRows, residual);
-    const more = maskCoherentEmission(width, height, residual, inVar, use, emissionPixels, skyRows, EMISSION_HALF_ROWS);
+    const more = maskCoherentEmission(width, height, residual, inVar, use, emissionPixels, skyRows, EMISSION_HALF_ROWS, round);
     if (more === 0) break;
     masked += more;
-    model = fitSkySpline({ width, height, sci: inSci, var: inVar, wave, use }, settings.order, settings.knotSpacingPx, settings.clipSigma, 0) ?? model;
+    const refit = refitWithout(model, input, skyRows, emissionPixels, round);
+    if (refit === null) break;
+    model = refit;
   }
   if (masked > 0) log.info('sky-emission', `${masked} sky-row pixels with faint line emission left out of the sky fit`, { actual: masked });
 
