@@ -23,6 +23,13 @@ const EXCESS_MEAN = 3.82e-4;
 const EXCESS_SQUARE = 2.03e-4;
 /** Rows either side of a row in its emission block (9 rows: faint outer emission gains a factor 3 in S/N). */
 const EMISSION_HALF_ROWS = 4;
+/**
+ * Rows of the first sky fit: every second, or fewer while at least FIRST_MIN_ROWS remain, so that
+ * the first model's own variance stays below ~3% of the noise of a block of 2 * EMISSION_HALF_ROWS
+ * + 1 rows, which the emission score compares it with.
+ */
+const FIRST_MIN_ROWS = 300;
+const FIRST_MAX_STEP = 4;
 /** Rounds of masking faint emission in the sky rows and refitting. */
 const EMISSION_ROUNDS = 2;
 
@@ -53,8 +60,8 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const continuum = rowMedians(width, height, inSci, good, scratch, MEDIAN_STRIDE);
   const contRows = rowsAbove(continuum, settings.detectSigma, rowUsable);
   const firstSky = selectRows(height, rowUsable, contRows, settings.edgeRows);
-  // The first sky only has to reveal line emission: every second row, one clipping round.
-  const first = fit(frame, solution, good, firstSky, 0, { ...settings, clipIterations: 1 }, 2);
+  // The first sky only has to reveal line emission: one clipping round, on a few hundred rows.
+  const first = fit(frame, solution, good, firstSky, 0, { ...settings, clipIterations: 1 }, firstRowStep(firstSky));
   if (first === null) throw new StageError('sky', 'no-sky', 'no usable sky rows: the galaxy or masked pixels fill the slit; name rows of clean sky (sky_rows in the manifest, regions in the sky settings)');
 
   // 2. Line emission over the first sky model, then the galaxy region.
@@ -193,6 +200,12 @@ function emissionRows(score: Float64Array, usable: Uint8Array, width: number, de
   const base = values.length > 0 ? values[Math.floor(values.length / 4)]! : 0;
   const threshold = base + Math.max(EMISSION_FLOOR, detectSigma * Math.sqrt(width * EXCESS_SQUARE) + width * EXCESS_MEAN);
   return Uint8Array.from(score, (v, y) => (usable[y] && v > threshold ? 1 : 0));
+}
+
+function firstRowStep(rows: Uint8Array): number {
+  let n = 0;
+  for (let y = 0; y < rows.length; y++) n += rows[y]!;
+  return Math.min(FIRST_MAX_STEP, Math.max(2, Math.floor(n / FIRST_MIN_ROWS)));
 }
 
 function selectRows(height: number, usable: Uint8Array, blocked: Uint8Array, edgeRows: number): Uint8Array {
