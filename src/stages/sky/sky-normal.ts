@@ -6,6 +6,7 @@
  */
 import { UniformCubicBSpline } from '../../kernels/bspline.js';
 import type { SkyFitInput } from './sky-spline.js';
+import { pieceValue } from './spline-pieces.js';
 
 const B = UniformCubicBSpline;
 
@@ -35,21 +36,20 @@ export function addRow(input: SkyFitInput, spline: UniformCubicBSpline, g: numbe
 }
 
 /**
- * Pixels of row y further than sqrt(limit2) noise sigmas from the fitted model (coefficients c,
- * slit factor g, the factor the sums were made with) are cleared in `use` and taken out of the sums.
+ * Pixels of row y further than sqrt(limit2) noise sigmas from the fitted model (its pieces, slit
+ * factor g, the factor the sums were made with) are cleared in `use` and taken out of the sums.
  */
-export function clipRow(input: SkyFitInput, spline: UniformCubicBSpline, c: Float64Array, g: number, y: number, limit2: number, sums: NormalSums): void {
+export function clipRow(input: SkyFitInput, spline: UniformCubicBSpline, pieces: Float64Array, g: number, y: number, limit2: number, sums: NormalSums): void {
   const { width, sci, wave, use } = input;
   const variance = input.var;
-  const { start, spacing, nIntervals } = spline;
+  const { start, inverseSpacing, nIntervals } = spline;
   for (let x = 0, i = y * width; x < width; x++, i++) {
     if (!use[i]) continue;
     const v = variance[i]!;
     if (!(v > 0)) continue;
-    const u = wave[i]!;
-    const k = B.interval(u, start, spacing, nIntervals);
-    const s = (u - start) / spacing - k;
-    const res = sci[i]! - g * (c[k]! * B.basis0(s) + c[k + 1]! * B.basis1(s) + c[k + 2]! * B.basis2(s) + c[k + 3]! * B.basis3(s));
+    const t = (wave[i]! - start) * inverseSpacing;
+    const k = B.interval(t, nIntervals);
+    const res = sci[i]! - g * pieceValue(pieces, 4 * k, t - k);
     if (res * res > limit2 * v) {
       use[i] = 0;
       addPixel(input, spline, g, i, -1, sums);
@@ -69,12 +69,13 @@ export function removeMarked(input: SkyFitInput, spline: UniformCubicBSpline, g:
 
 /** Add (sign 1) or subtract (sign -1) pixel i's terms g^2 b b^T / v and g d b / v. */
 function addPixel(input: SkyFitInput, spline: UniformCubicBSpline, g: number, i: number, sign: number, sums: NormalSums): void {
-  const { start, spacing, nIntervals } = spline;
+  const { start, inverseSpacing, nIntervals } = spline;
   const { normal, rhs } = sums;
   const v = input.var[i]!;
   const u = input.wave[i]!;
-  const k = B.interval(u, start, spacing, nIntervals);
-  const s = (u - start) / spacing - k;
+  const t = (u - start) * inverseSpacing;
+  const k = B.interval(t, nIntervals);
+  const s = t - k;
   const b0 = B.basis0(s);
   const b1 = B.basis1(s);
   const b2 = B.basis2(s);

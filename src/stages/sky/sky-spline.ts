@@ -18,6 +18,7 @@ import { medianOfBuffer } from '../../kernels/robust.js';
 import type { CalibratedFrame } from '../../products/frame.js';
 import { addRow, clipRow, emptySums, removeMarked, type NormalSums } from './sky-normal.js';
 import { addPenalty, BAND } from './spline-penalty.js';
+import { pieceValue, pieceVariance, splinePieces, type SplinePieces } from './spline-pieces.js';
 
 const B = UniformCubicBSpline;
 
@@ -43,6 +44,8 @@ export interface SkySpline {
   dropped: number;
   /** The unpenalised normal equations of the fit (its own copy), for refits without some pixels. */
   sums: NormalSums;
+  /** The model and its variance in piecewise-polynomial form, for evaluation. */
+  pieces: SplinePieces;
 }
 
 export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: number, clipSigma: number, iterations: number, rowStep = 1): SkySpline | null {
@@ -70,7 +73,7 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
   for (let round = 0; round < iterations && fit !== null; round++) {
     const sums = copySums(fit.sums);
     sums.dropped = 0;
-    for (const y of rows) if (y % rowStep === 0) clipRow(input, spline, fit.coeffs, slit[y]!, y, limit2, sums);
+    for (const y of rows) if (y % rowStep === 0) clipRow(input, spline, fit.pieces.value, slit[y]!, y, limit2, sums);
     if (sums.dropped === 0) break;
     fit = solve(spline, slit, sums);
   }
@@ -124,7 +127,7 @@ function solve(spline: UniformCubicBSpline, slit: Float64Array, sums: NormalSums
   solveBandedLdl(normal, n, BAND, rhs);
   const covariance = new Float64Array(n * 4);
   bandedInverseInBand(normal, n, BAND, covariance);
-  return { spline, coeffs: rhs, covariance, slit, used: sums.used, dropped: sums.dropped, sums };
+  return { spline, coeffs: rhs, covariance, slit, used: sums.used, dropped: sums.dropped, sums, pieces: splinePieces(rhs, covariance, spline.nIntervals) };
 }
 
 function copySums(s: NormalSums): NormalSums {
@@ -158,15 +161,14 @@ function fitSlit(input: SkyFitInput, inUse: Int32Array, fit: SkySpline, order: n
 /** data / B of the used pixels of row y where B > 0, into ratios[0..n); returns n. A function of its own, compiled once (as addRow). */
 function rowRatios(input: SkyFitInput, fit: SkySpline, y: number, ratios: Float64Array): number {
   const { width, sci, wave, use } = input;
-  const { start, spacing, nIntervals } = fit.spline;
-  const c = fit.coeffs;
+  const { start, inverseSpacing, nIntervals } = fit.spline;
+  const pieces = fit.pieces.value;
   let n = 0;
   for (let x = 0, i = y * width; x < width; x++, i++) {
     if (!use[i]) continue;
-    const u = wave[i]!;
-    const k = B.interval(u, start, spacing, nIntervals);
-    const s = (u - start) / spacing - k;
-    const value = c[k]! * B.basis0(s) + c[k + 1]! * B.basis1(s) + c[k + 2]! * B.basis2(s) + c[k + 3]! * B.basis3(s);
+    const t = (wave[i]! - start) * inverseSpacing;
+    const k = B.interval(t, nIntervals);
+    const value = pieceValue(pieces, 4 * k, t - k);
     if (value > 0) ratios[n++] = sci[i]! / value;
   }
   return n;
@@ -174,36 +176,25 @@ function rowRatios(input: SkyFitInput, fit: SkySpline, y: number, ratios: Float6
 
 /**
  * Model values of the pixels offset..offset+width-1 (row y) into value[0..width), and with
- * `variance` the model's variance b^T Z b (Z the coefficient covariance in band storage).
+ * `variance` the model's variance b^T Z b (Z the coefficient covariance).
  */
 export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, width: number, y: number, value: Float64Array, variance: Float64Array | null): void {
-  const { start, spacing, nIntervals } = fit.spline;
-  const c = fit.coeffs;
-  const z = fit.covariance;
+  const { start, inverseSpacing, nIntervals } = fit.spline;
+  const pv = fit.pieces.value;
+  const pz = fit.pieces.variance;
   const g = fit.slit[y]!;
+  const g2 = g * g;
   // A boolean and one array type keep the loop monomorphic (a nullable array is tested at every pixel).
   const withVariance = variance !== null;
   const modelVar = variance ?? value;
   for (let x = 0; x < width; x++) {
-    const u = wave[offset + x]!;
-    const k = B.interval(u, start, spacing, nIntervals);
-    const s = (u - start) / spacing - k;
-    const b0 = B.basis0(s);
-    const b1 = B.basis1(s);
-    const b2 = B.basis2(s);
-    const b3 = B.basis3(s);
-    value[x] = g * (c[k]! * b0 + c[k + 1]! * b1 + c[k + 2]! * b2 + c[k + 3]! * b3);
-    if (withVariance) {
-      // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q).
-      const a = k * 4;
-      const v =
-        b0 * b0 * z[a]! + b1 * b1 * z[a + 4]! + b2 * b2 * z[a + 8]! + b3 * b3 * z[a + 12]! +
-        2 * (b1 * b0 * z[a + 5]! + b2 * b1 * z[a + 9]! + b2 * b0 * z[a + 10]! + b3 * b2 * z[a + 13]! + b3 * b1 * z[a + 14]! + b3 * b0 * z[a + 15]!);
-      modelVar[x] = g * g * v;
-    }
+    const t = (wave[offset + x]! - start) * inverseSpacing;
+    const k = B.interval(t, nIntervals);
+    const s = t - k;
+    value[x] = g * pieceValue(pv, 4 * k, s);
+    if (withVariance) modelVar[x] = g2 * pieceVariance(pz, 7 * k, s);
   }
 }
-
 
 /** out = data - model at every pixel of the rows set in `rows` (of every row when null); rows of `width` pixels, one per slit row of the fit. */
 export function subtractModel(fit: SkySpline, wave: Float64Array, data: Float32Array, width: number, rows: Uint8Array | null, out: Float32Array): void {
