@@ -18,7 +18,7 @@ import { medianOfBuffer } from '../../kernels/robust.js';
 import type { CalibratedFrame } from '../../products/frame.js';
 import { addRow, clipRow, emptySums, removeMarked, type NormalSums } from './sky-normal.js';
 import { addPenalty, BAND } from './spline-penalty.js';
-import { pieceValue, pieceVariance, splinePieces, type SplinePieces } from './spline-pieces.js';
+import { pieceValue, pieceVariance, valuePieces, variancePieces } from './spline-pieces.js';
 
 const B = UniformCubicBSpline;
 
@@ -44,8 +44,8 @@ export interface SkySpline {
   dropped: number;
   /** The unpenalised normal equations of the fit (its own copy), for refits without some pixels. */
   sums: NormalSums;
-  /** The model and its variance in piecewise-polynomial form, for evaluation. */
-  pieces: SplinePieces;
+  /** The model in piecewise-polynomial form (spline-pieces.ts), for evaluation. */
+  pieces: Float64Array;
 }
 
 export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: number, clipSigma: number, iterations: number, rowStep = 1): SkySpline | null {
@@ -73,7 +73,7 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
   for (let round = 0; round < iterations && fit !== null; round++) {
     const sums = copySums(fit.sums);
     sums.dropped = 0;
-    for (const y of rows) if (y % rowStep === 0) clipRow(input, spline, fit.pieces.value, slit[y]!, y, limit2, sums);
+    for (const y of rows) if (y % rowStep === 0) clipRow(input, spline, fit.pieces, slit[y]!, y, limit2, sums);
     if (sums.dropped === 0) break;
     fit = solve(spline, slit, sums);
   }
@@ -127,7 +127,7 @@ function solve(spline: UniformCubicBSpline, slit: Float64Array, sums: NormalSums
   solveBandedLdl(normal, n, BAND, rhs);
   const covariance = new Float64Array(n * 4);
   bandedInverseInBand(normal, n, BAND, covariance);
-  return { spline, coeffs: rhs, covariance, slit, used: sums.used, dropped: sums.dropped, sums, pieces: splinePieces(rhs, covariance, spline.nIntervals) };
+  return { spline, coeffs: rhs, covariance, slit, used: sums.used, dropped: sums.dropped, sums, pieces: valuePieces(rhs, spline.nIntervals) };
 }
 
 function copySums(s: NormalSums): NormalSums {
@@ -162,7 +162,7 @@ function fitSlit(input: SkyFitInput, inUse: Int32Array, fit: SkySpline, order: n
 function rowRatios(input: SkyFitInput, fit: SkySpline, y: number, ratios: Float64Array): number {
   const { width, sci, wave, use } = input;
   const { start, inverseSpacing, nIntervals } = fit.spline;
-  const pieces = fit.pieces.value;
+  const pieces = fit.pieces;
   let n = 0;
   for (let x = 0, i = y * width; x < width; x++, i++) {
     if (!use[i]) continue;
@@ -174,19 +174,25 @@ function rowRatios(input: SkyFitInput, fit: SkySpline, y: number, ratios: Float6
   return n;
 }
 
+/** Where evaluateRow puts the model's variance, and the variance's pieces (variancePieces of the fit's covariance). */
+export interface ModelVariance {
+  out: Float64Array;
+  pieces: Float64Array;
+}
+
 /**
  * Model values of the pixels offset..offset+width-1 (row y) into value[0..width), and with
- * `variance` the model's variance b^T Z b (Z the coefficient covariance).
+ * `variance` the model's variance b^T Z b (Z the coefficient covariance) into variance.out.
  */
-export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, width: number, y: number, value: Float64Array, variance: Float64Array | null): void {
+export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, width: number, y: number, value: Float64Array, variance: ModelVariance | null): void {
   const { start, inverseSpacing, nIntervals } = fit.spline;
-  const pv = fit.pieces.value;
-  const pz = fit.pieces.variance;
+  const pv = fit.pieces;
   const g = fit.slit[y]!;
   const g2 = g * g;
-  // A boolean and one array type keep the loop monomorphic (a nullable array is tested at every pixel).
+  // A boolean and one array type each keep the loop monomorphic (a nullable array is tested at every pixel).
   const withVariance = variance !== null;
-  const modelVar = variance ?? value;
+  const modelVar = variance?.out ?? value;
+  const pz = variance?.pieces ?? pv;
   for (let x = 0; x < width; x++) {
     const t = (wave[offset + x]! - start) * inverseSpacing;
     const k = B.interval(t, nIntervals);
@@ -211,12 +217,12 @@ export function subtractModel(fit: SkySpline, wave: Float64Array, data: Float32A
 export function subtractModelWithVariance(fit: SkySpline, wave: Float64Array, data: Float32Array, variance: Float32Array, width: number, sciOut: Float32Array, varOut: Float32Array): void {
   const height = fit.slit.length;
   const value = new Float64Array(width);
-  const modelVar = new Float64Array(width);
+  const modelVar: ModelVariance = { out: new Float64Array(width), pieces: variancePieces(fit.covariance, fit.spline.nIntervals) };
   for (let y = 0; y < height; y++) {
     evaluateRow(fit, wave, y * width, width, y, value, modelVar);
     for (let x = 0, i = y * width; x < width; x++, i++) {
       sciOut[i] = data[i]! - value[x]!;
-      varOut[i] = variance[i]! + modelVar[x]!;
+      varOut[i] = variance[i]! + modelVar.out[x]!;
     }
   }
 }

@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { UniformCubicBSpline } from '../../../src/kernels/bspline.js';
 import { emptySums } from '../../../src/stages/sky/sky-normal.js';
 import { evaluateRow, type SkySpline } from '../../../src/stages/sky/sky-spline.js';
-import { splinePieces } from '../../../src/stages/sky/spline-pieces.js';
+import { valuePieces, variancePieces } from '../../../src/stages/sky/spline-pieces.js';
 
 const fixture = JSON.parse(readFileSync(new URL('../../../fixtures/lines/spline_band.json', import.meta.url), 'utf8')) as {
   spline: { start: number; spacing: number; nIntervals: number; coeffs: number[]; u: number[]; values: number[] };
@@ -25,12 +25,12 @@ describe('sky spline pieces', () => {
   for (let i = 0; i < n; i++) for (let j = Math.max(0, i - 3); j <= i; j++) covariance[i * 4 + (i - j)] = fixture.covariance.matrix[i]![j]!;
   // u near 6500 with breakpoints 0.4 apart: the fraction s is known to ~1e-12, which bounds the agreement.
   const slit = 1.07;
-  const fit: SkySpline = { spline, coeffs: c, covariance, slit: Float64Array.of(slit), used: 0, dropped: 0, sums: emptySums(n), pieces: splinePieces(c, covariance, nIntervals) };
+  const fit: SkySpline = { spline, coeffs: c, covariance, slit: Float64Array.of(slit), used: 0, dropped: 0, sums: emptySums(n), pieces: valuePieces(c, nIntervals) };
 
   it('gives scipy BSpline values and the design-matrix variance b^T Z b, times the slit factor and its square', () => {
     const value = new Float64Array(u.length);
     const variance = new Float64Array(u.length);
-    evaluateRow(fit, Float64Array.from(u), 0, u.length, 0, value, variance);
+    evaluateRow(fit, Float64Array.from(u), 0, u.length, 0, value, { out: variance, pieces: variancePieces(covariance, nIntervals) });
     const scale = Math.max(...values.map(Math.abs));
     values.forEach((v, i) => expect(Math.abs(value[i]! - slit * v)).toBeLessThan(1e-12 * scale));
     fixture.covariance.variance.forEach((v, i) => expect(Math.abs(variance[i]! / (slit * slit * v) - 1)).toBeLessThan(1e-11));
