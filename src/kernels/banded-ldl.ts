@@ -34,15 +34,33 @@ export function factorBandedLdl(a: Float64Array, n: number, p: number): boolean 
   return true;
 }
 
-/** Solve (L D L^T) x = b in place, with `a` from factorBandedLdl. */
+/**
+ * Solve (L D L^T) x = b in place, with `a` from factorBandedLdl. Each sweep is a function of its
+ * own: code after a long loop in the same function is compiled on the fly without feedback and
+ * sent V8 back to the interpreter at every call.
+ */
 export function solveBandedLdl(a: Float64Array, n: number, p: number, b: Float64Array): void {
+  forwardSweep(a, n, p, b);
+  divideByDiagonal(a, n, p, b);
+  backwardSweep(a, n, p, b);
+}
+
+function forwardSweep(a: Float64Array, n: number, p: number, b: Float64Array): void {
   const w = p + 1;
   for (let i = 0; i < n; i++) {
     let s = b[i]!;
     for (let k = Math.max(0, i - p); k < i; k++) s -= a[i * w + (i - k)]! * b[k]!;
     b[i] = s;
   }
+}
+
+function divideByDiagonal(a: Float64Array, n: number, p: number, b: Float64Array): void {
+  const w = p + 1;
   for (let i = 0; i < n; i++) b[i] = b[i]! / a[i * w]!;
+}
+
+function backwardSweep(a: Float64Array, n: number, p: number, b: Float64Array): void {
+  const w = p + 1;
   for (let i = n - 1; i >= 0; i--) {
     let s = b[i]!;
     const kEnd = Math.min(n - 1, i + p);
@@ -52,15 +70,18 @@ export function solveBandedLdl(a: Float64Array, n: number, p: number, b: Float64
 }
 
 /** Fill `z` (same band storage) with the entries of the inverse inside the band, from the factor `a`. */
+/** Z(k, j) for |k - j| <= p from the band storage (symmetric); a module-level function, not a closure made at each call (a new closure is a new call target to V8). */
+function bandEntry(z: Float64Array, w: number, k: number, j: number): number {
+  return k >= j ? z[k * w + (k - j)]! : z[j * w + (j - k)]!;
+}
+
 export function bandedInverseInBand(a: Float64Array, n: number, p: number, z: Float64Array): void {
   const w = p + 1;
-  // Z(k, j) for |k - j| <= p from the band storage (symmetric).
-  const get = (k: number, j: number): number => (k >= j ? z[k * w + (k - j)]! : z[j * w + (j - k)]!);
   for (let i = n - 1; i >= 0; i--) {
     const kEnd = Math.min(n - 1, i + p);
     for (let j = kEnd; j >= i; j--) {
       let s = i === j ? 1 / a[i * w]! : 0;
-      for (let k = i + 1; k <= kEnd; k++) s -= a[k * w + (k - i)]! * get(k, j);
+      for (let k = i + 1; k <= kEnd; k++) s -= a[k * w + (k - i)]! * bandEntry(z, w, k, j);
       z[j * w + (j - i)] = s;
     }
   }

@@ -13,9 +13,10 @@ const MAX_FRACTION = 0.5;
 /**
  * residual = data - sky model. For each sky row, residuals and variances of the used pixels are
  * summed over the sky rows within halfRows; pixels whose block z exceeds Z_LIMIT (and their two
- * neighbours along the row) are removed from `use` and set in `emission`. Returns the number removed.
+ * neighbours along the row) are removed from `use` and set to `mark` in `emission` (a round's own
+ * mark tells its pixels from earlier rounds'). Returns the number removed.
  */
-export function maskCoherentEmission(width: number, height: number, residual: Float32Array, variance: Float32Array, use: Uint8Array, emission: Uint8Array, skyRows: Uint8Array, halfRows: number): number {
+export function maskCoherentEmission(width: number, height: number, residual: Float32Array, variance: Float32Array, use: Uint8Array, emission: Uint8Array, skyRows: Uint8Array, halfRows: number, mark = 1): number {
   const block: Block = { width, height, residual, variance, use, skyRows, sum: new Float64Array(width), vsum: new Float64Array(width) };
   const marked = new Uint8Array(width * height);
   const perColumn = new Int32Array(width);
@@ -36,7 +37,7 @@ export function maskCoherentEmission(width: number, height: number, residual: Fl
     for (let x = 0, i = y * width; x < width; x++, i++) {
       if (!marked[i] || perColumn[x]! > MAX_FRACTION * nSky) continue;
       use[i] = 0;
-      emission[i] = 1;
+      emission[i] = mark;
       removed++;
     }
   }

@@ -6,8 +6,9 @@
  * ratio of the data to a spline with breakpoints one pixel apart (every sky row then feeds every
  * spline interval, so B cannot take up a slit gradient); B is then refitted on the finer
  * breakpoints with g held. A small second-difference penalty (P-splines, Eilers & Marx 1996,
- * Stat. Sci. 11, 89) keeps B defined in wavelength gaps. Fit, clip, refit; the in-band inverse of
- * the normal matrix gives the model's own variance at every pixel.
+ * Stat. Sci. 11, 89) keeps B defined in wavelength gaps. Fit, clip, refit (the clipped pixels
+ * taken out of the normal equations, sky-normal.ts); the in-band inverse of the normal matrix
+ * gives the model's own variance at every pixel.
  */
 import { bandedInverseInBand, factorBandedLdl, solveBandedLdl } from '../../kernels/banded-ldl.js';
 import { UniformCubicBSpline } from '../../kernels/bspline.js';
@@ -15,7 +16,9 @@ import { evalLegendre1D } from '../../kernels/legendre.js';
 import { fitLegendre1D } from '../../kernels/legendre-fit.js';
 import { medianOfBuffer } from '../../kernels/robust.js';
 import type { CalibratedFrame } from '../../products/frame.js';
+import { addRow, clipRow, emptySums, removeMarked, type NormalSums } from './sky-normal.js';
 import { addPenalty, BAND } from './spline-penalty.js';
+import { pieceValue, pieceVariance, valuePieces, variancePieces } from './spline-pieces.js';
 
 const B = UniformCubicBSpline;
 
@@ -36,9 +39,13 @@ export interface SkySpline {
   covariance: Float64Array;
   /** Slit factor g per row. */
   slit: Float64Array;
-  /** Pixels used in the last fit, and those its clipping dropped. */
+  /** Pixels used in the fit, and those its clipping dropped. */
   used: number;
   dropped: number;
+  /** The unpenalised normal equations of the fit (its own copy), for refits without some pixels. */
+  sums: NormalSums;
+  /** The model in piecewise-polynomial form (spline-pieces.ts), for evaluation. */
+  pieces: Float64Array;
 }
 
 export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: number, clipSigma: number, iterations: number, rowStep = 1): SkySpline | null {
@@ -54,19 +61,34 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
   const slit = new Float64Array(height).fill(1);
   const rows = rowsInUse(input);
   if (order > 0) {
-    const coarse = fitSpline(input, rows, UniformCubicBSpline.covering(lo, hi, dispersion), slit, null, clipSigma, Math.max(rowStep, SLIT_ROW_STEP));
+    const coarse = fitSpline(input, rows, UniformCubicBSpline.covering(lo, hi, dispersion), slit, Math.max(rowStep, SLIT_ROW_STEP));
     if (coarse === null) return null;
     fitSlit(input, rows, coarse, order);
   }
   const spline = UniformCubicBSpline.covering(lo, hi, knotSpacingPx * dispersion);
-  let fit = fitSpline(input, rows, spline, slit, null, clipSigma, rowStep);
-  // Each further round clips against the previous model while it accumulates the next fit; a
-  // round that drops nothing has converged.
+  let fit = fitSpline(input, rows, spline, slit, rowStep);
+  // Each round clips against the current model and takes the clipped pixels out of its sums;
+  // a round that drops nothing has converged.
+  const limit2 = clipSigma * clipSigma;
   for (let round = 0; round < iterations && fit !== null; round++) {
-    fit = fitSpline(input, rows, spline, slit, fit, clipSigma, rowStep);
-    if (fit !== null && fit.dropped === 0) break;
+    const sums = copySums(fit.sums);
+    sums.dropped = 0;
+    for (const y of rows) if (y % rowStep === 0) clipRow(input, spline, fit.pieces, slit[y]!, y, limit2, sums);
+    if (sums.dropped === 0) break;
+    fit = solve(spline, slit, sums);
   }
   return fit;
+}
+
+/**
+ * The fit without the pixels of `rows` marked `mark` in `marks` (pixels `fit` used; the caller
+ * clears them in its `use`), slit factor held: the refit after masking a few pixels.
+ */
+export function refitWithout(fit: SkySpline, input: SkyFitInput, rows: Uint8Array, marks: Uint8Array, mark: number): SkySpline | null {
+  const sums = copySums(fit.sums);
+  sums.dropped = 0;
+  for (let y = 0; y < rows.length; y++) if (rows[y]) removeMarked(input, fit.spline, fit.slit[y]!, y, marks, mark, sums);
+  return solve(fit.spline, fit.slit, sums);
 }
 
 /**
@@ -87,106 +109,29 @@ function rowsInUse(input: SkyFitInput): Int32Array {
   return Int32Array.from(rows);
 }
 
-/**
- * Least squares of the spline on the used pixels of every rowStep-th row (of `rows`, the rows
- * holding any); with `previous`, pixels further than clipSigma noise sigmas from it are first
- * dropped from `use`.
- */
-function fitSpline(input: SkyFitInput, rows: Int32Array, spline: UniformCubicBSpline, slit: Float64Array, previous: SkySpline | null, clipSigma: number, rowStep: number): SkySpline | null {
+/** Least squares of the spline on the used pixels of every rowStep-th row (of `rows`, the rows holding any). */
+function fitSpline(input: SkyFitInput, rows: Int32Array, spline: UniformCubicBSpline, slit: Float64Array, rowStep: number): SkySpline | null {
+  const sums = emptySums(spline.nBasis);
+  for (const y of rows) if (y % rowStep === 0) addRow(input, spline, slit[y]!, y, sums);
+  return solve(spline, slit, sums);
+}
+
+/** The penalised solution of the sums (kept as they are) and its in-band covariance. */
+function solve(spline: UniformCubicBSpline, slit: Float64Array, sums: NormalSums): SkySpline | null {
   const n = spline.nBasis;
-  const sums: NormalSums = { normal: new Float64Array(n * 4), rhs: new Float64Array(n), used: 0, dropped: 0 };
-  // Without a previous model these are never read; one array type keeps the loop monomorphic.
-  const clip: Clip = { on: previous !== null, coeffs: previous?.coeffs ?? sums.rhs, slit: previous?.slit ?? slit, limit2: clipSigma * clipSigma };
-  for (const y of rows) if (y % rowStep === 0) addRow(input, spline, slit[y]!, y, clip, sums);
-  const { normal, rhs, used, dropped } = sums;
-  if (used < n / 4) return null;
+  if (sums.used < n / 4) return null;
+  const normal = sums.normal.slice();
+  const rhs = sums.rhs.slice();
   addPenalty(normal, n);
   if (!factorBandedLdl(normal, n, BAND)) return null;
   solveBandedLdl(normal, n, BAND, rhs);
   const covariance = new Float64Array(n * 4);
   bandedInverseInBand(normal, n, BAND, covariance);
-  return { spline, coeffs: rhs, covariance, slit, used, dropped };
+  return { spline, coeffs: rhs, covariance, slit, used: sums.used, dropped: sums.dropped, sums, pieces: valuePieces(rhs, spline.nIntervals) };
 }
 
-/** The sums of a fit: the band of the normal matrix (band storage, p = 3), its right-hand side, pixel counts. */
-interface NormalSums {
-  normal: Float64Array;
-  rhs: Float64Array;
-  used: number;
-  dropped: number;
-}
-
-/** Clipping against a previous model (coefficients and slit factor), when `on`. */
-interface Clip {
-  on: boolean;
-  coeffs: Float64Array;
-  slit: Float64Array;
-  /** clipSigma squared. */
-  limit2: number;
-}
-
-/**
- * Add the used pixels of row y (slit factor g) to the sums, after dropping from `use` those the
- * clipping rejects. A function per row: small, it is compiled once, where the pixel loop inside
- * fitSpline had fitSpline compiled again for each kind of call.
- */
-function addRow(input: SkyFitInput, spline: UniformCubicBSpline, g: number, y: number, clip: Clip, sums: NormalSums): void {
-  const { width, sci, wave, use } = input;
-  const variance = input.var;
-  const { start, spacing, nIntervals } = spline;
-  const { normal, rhs } = sums;
-  const clipping = clip.on;
-  const pc = clip.coeffs;
-  const gPrev = clip.slit[y]!;
-  const clip2 = clip.limit2;
-  // The counts go to `sums` from inside the loop: code after a long first loop has no type
-  // feedback when V8 compiles the loop on the fly, and would send every later call back to the
-  // interpreter.
-  for (let x = 0, i = y * width; x < width; x++, i++) {
-    if (!use[i]) continue;
-    const v = variance[i]!;
-    if (!(v > 0)) continue;
-    const u = wave[i]!;
-    const k = B.interval(u, start, spacing, nIntervals);
-    const s = (u - start) / spacing - k;
-    const b0 = B.basis0(s);
-    const b1 = B.basis1(s);
-    const b2 = B.basis2(s);
-    const b3 = B.basis3(s);
-    const d = sci[i]!;
-    if (clipping) {
-      const res = d - gPrev * (pc[k]! * b0 + pc[k + 1]! * b1 + pc[k + 2]! * b2 + pc[k + 3]! * b3);
-      if (res * res > clip2 * v) {
-        use[i] = 0;
-        sums.dropped++;
-        continue;
-      }
-    }
-    sums.used++;
-    const w = (g * g) / v;
-    const wd = (g * d) / v;
-    rhs[k] += wd * b0;
-    rhs[k + 1] += wd * b1;
-    rhs[k + 2] += wd * b2;
-    rhs[k + 3] += wd * b3;
-    const a = k * 4;
-    // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q). w * b_p once per row of
-    // the band: (w * b_p) * b_q is the very product w * b_p * b_q (left to right).
-    const w0 = w * b0;
-    const w1 = w * b1;
-    const w2 = w * b2;
-    const w3 = w * b3;
-    normal[a] += w0 * b0;
-    normal[a + 4] += w1 * b1;
-    normal[a + 5] += w1 * b0;
-    normal[a + 8] += w2 * b2;
-    normal[a + 9] += w2 * b1;
-    normal[a + 10] += w2 * b0;
-    normal[a + 12] += w3 * b3;
-    normal[a + 13] += w3 * b2;
-    normal[a + 14] += w3 * b1;
-    normal[a + 15] += w3 * b0;
-  }
+function copySums(s: NormalSums): NormalSums {
+  return { normal: s.normal.slice(), rhs: s.rhs.slice(), used: s.used, dropped: s.dropped };
 }
 
 /**
@@ -216,52 +161,46 @@ function fitSlit(input: SkyFitInput, inUse: Int32Array, fit: SkySpline, order: n
 /** data / B of the used pixels of row y where B > 0, into ratios[0..n); returns n. A function of its own, compiled once (as addRow). */
 function rowRatios(input: SkyFitInput, fit: SkySpline, y: number, ratios: Float64Array): number {
   const { width, sci, wave, use } = input;
-  const { start, spacing, nIntervals } = fit.spline;
-  const c = fit.coeffs;
+  const { start, inverseSpacing, nIntervals } = fit.spline;
+  const pieces = fit.pieces;
   let n = 0;
   for (let x = 0, i = y * width; x < width; x++, i++) {
     if (!use[i]) continue;
-    const u = wave[i]!;
-    const k = B.interval(u, start, spacing, nIntervals);
-    const s = (u - start) / spacing - k;
-    const value = c[k]! * B.basis0(s) + c[k + 1]! * B.basis1(s) + c[k + 2]! * B.basis2(s) + c[k + 3]! * B.basis3(s);
+    const t = (wave[i]! - start) * inverseSpacing;
+    const k = B.interval(t, nIntervals);
+    const value = pieceValue(pieces, 4 * k, t - k);
     if (value > 0) ratios[n++] = sci[i]! / value;
   }
   return n;
 }
 
-/**
- * Model values of the pixels offset..offset+width-1 (row y) into value[0..width), and with
- * `variance` the model's variance b^T Z b (Z the coefficient covariance in band storage).
- */
-export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, width: number, y: number, value: Float64Array, variance: Float64Array | null): void {
-  const { start, spacing, nIntervals } = fit.spline;
-  const c = fit.coeffs;
-  const z = fit.covariance;
-  const g = fit.slit[y]!;
-  // A boolean and one array type keep the loop monomorphic (a nullable array is tested at every pixel).
-  const withVariance = variance !== null;
-  const modelVar = variance ?? value;
-  for (let x = 0; x < width; x++) {
-    const u = wave[offset + x]!;
-    const k = B.interval(u, start, spacing, nIntervals);
-    const s = (u - start) / spacing - k;
-    const b0 = B.basis0(s);
-    const b1 = B.basis1(s);
-    const b2 = B.basis2(s);
-    const b3 = B.basis3(s);
-    value[x] = g * (c[k]! * b0 + c[k + 1]! * b1 + c[k + 2]! * b2 + c[k + 3]! * b3);
-    if (withVariance) {
-      // Band storage: entry (k + p, k + q) at (k + p) * 4 + (p - q).
-      const a = k * 4;
-      const v =
-        b0 * b0 * z[a]! + b1 * b1 * z[a + 4]! + b2 * b2 * z[a + 8]! + b3 * b3 * z[a + 12]! +
-        2 * (b1 * b0 * z[a + 5]! + b2 * b1 * z[a + 9]! + b2 * b0 * z[a + 10]! + b3 * b2 * z[a + 13]! + b3 * b1 * z[a + 14]! + b3 * b0 * z[a + 15]!);
-      modelVar[x] = g * g * v;
-    }
-  }
+/** Where evaluateRow puts the model's variance, and the variance's pieces (variancePieces of the fit's covariance). */
+export interface ModelVariance {
+  out: Float64Array;
+  pieces: Float64Array;
 }
 
+/**
+ * Model values of the pixels offset..offset+width-1 (row y) into value[0..width), and with
+ * `variance` the model's variance b^T Z b (Z the coefficient covariance) into variance.out.
+ */
+export function evaluateRow(fit: SkySpline, wave: Float64Array, offset: number, width: number, y: number, value: Float64Array, variance: ModelVariance | null): void {
+  const { start, inverseSpacing, nIntervals } = fit.spline;
+  const pv = fit.pieces;
+  const g = fit.slit[y]!;
+  const g2 = g * g;
+  // A boolean and one array type each keep the loop monomorphic (a nullable array is tested at every pixel).
+  const withVariance = variance !== null;
+  const modelVar = variance?.out ?? value;
+  const pz = variance?.pieces ?? pv;
+  for (let x = 0; x < width; x++) {
+    const t = (wave[offset + x]! - start) * inverseSpacing;
+    const k = B.interval(t, nIntervals);
+    const s = t - k;
+    value[x] = g * pieceValue(pv, 4 * k, s);
+    if (withVariance) modelVar[x] = g2 * pieceVariance(pz, 7 * k, s);
+  }
+}
 
 /** out = data - model at every pixel of the rows set in `rows` (of every row when null); rows of `width` pixels, one per slit row of the fit. */
 export function subtractModel(fit: SkySpline, wave: Float64Array, data: Float32Array, width: number, rows: Uint8Array | null, out: Float32Array): void {
@@ -278,12 +217,12 @@ export function subtractModel(fit: SkySpline, wave: Float64Array, data: Float32A
 export function subtractModelWithVariance(fit: SkySpline, wave: Float64Array, data: Float32Array, variance: Float32Array, width: number, sciOut: Float32Array, varOut: Float32Array): void {
   const height = fit.slit.length;
   const value = new Float64Array(width);
-  const modelVar = new Float64Array(width);
+  const modelVar: ModelVariance = { out: new Float64Array(width), pieces: variancePieces(fit.covariance, fit.spline.nIntervals) };
   for (let y = 0; y < height; y++) {
     evaluateRow(fit, wave, y * width, width, y, value, modelVar);
     for (let x = 0, i = y * width; x < width; x++, i++) {
       sciOut[i] = data[i]! - value[x]!;
-      varOut[i] = variance[i]! + modelVar[x]!;
+      varOut[i] = variance[i]! + modelVar.out[x]!;
     }
   }
 }

@@ -13,7 +13,7 @@ import { requireSameGrid } from '../arc/same-grid.js';
 import { emissionScore, galaxyRun, MEDIAN_STRIDE, rowMedians, rowsAbove } from './galaxy-rows.js';
 import type { SkySettings } from './settings.js';
 import { maskCoherentEmission } from './emission-mask.js';
-import { evaluateRow, fitSkySpline, subtractModel, subtractModelWithVariance, type SkySpline } from './sky-spline.js';
+import { evaluateRow, fitSkySpline, refitWithout, subtractModel, subtractModelWithVariance, type SkySpline } from './sky-spline.js';
 
 /** Mask bits that make a pixel unusable for the sky fit and the profiles. */
 /** Least emission score of a galaxy row: about one line with a 5-sigma peak three pixels wide (common practice for a detection floor). */
@@ -23,6 +23,13 @@ const EXCESS_MEAN = 3.82e-4;
 const EXCESS_SQUARE = 2.03e-4;
 /** Rows either side of a row in its emission block (9 rows: faint outer emission gains a factor 3 in S/N). */
 const EMISSION_HALF_ROWS = 4;
+/**
+ * Rows of the first sky fit: every second, or fewer while at least FIRST_MIN_ROWS remain, so that
+ * the first model's own variance stays below ~3% of the noise of a block of 2 * EMISSION_HALF_ROWS
+ * + 1 rows, which the emission score compares it with.
+ */
+const FIRST_MIN_ROWS = 300;
+const FIRST_MAX_STEP = 4;
 /** Rounds of masking faint emission in the sky rows and refitting. */
 const EMISSION_ROUNDS = 2;
 
@@ -53,8 +60,8 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const continuum = rowMedians(width, height, inSci, good, scratch, MEDIAN_STRIDE);
   const contRows = rowsAbove(continuum, settings.detectSigma, rowUsable);
   const firstSky = selectRows(height, rowUsable, contRows, settings.edgeRows);
-  // The first sky only has to reveal line emission: every second row, one clipping round.
-  const first = fit(frame, solution, good, firstSky, 0, { ...settings, clipIterations: 1 }, 2);
+  // The first sky only has to reveal line emission: one clipping round, on a few hundred rows.
+  const first = fit(frame, solution, good, firstSky, 0, { ...settings, clipIterations: 1 }, firstRowStep(firstSky));
   if (first === null) throw new StageError('sky', 'no-sky', 'no usable sky rows: the galaxy or masked pixels fill the slit; name rows of clean sky (sky_rows in the manifest, regions in the sky settings)');
 
   // 2. Line emission over the first sky model, then the galaxy region.
@@ -92,16 +99,21 @@ export function subtractSky(frame: CalibratedFrame, solution: WavelengthSolution
   const use = new Uint8Array(good.length);
   let model = fit(frame, solution, good, skyRows, settings.order, settings, 1, use);
   if (model === null) throw new StageError('sky', 'no-sky', `too few good sky pixels to fit the sky (${nSky} sky rows); name more rows of clean sky (sky_rows in the manifest, regions in the sky settings)`);
-  // Faint emission coherent along the slit in the sky rows: masked, and the sky fitted again. The
-  // model took up part of that emission, so the residual understates it: a few rounds.
+  // Faint emission coherent along the slit in the sky rows: masked, and the sky fitted again
+  // without it. The model took up part of that emission, so the residual understates it: a few
+  // rounds. The slit factor is held: a row's median ratio hardly moves when a few of its
+  // thousands of pixels go.
   let masked = 0;
   const emissionPixels = new Uint8Array(good.length);
-  for (let round = 0; round < EMISSION_ROUNDS; round++) {
+  const input = { width, height, sci: inSci, var: inVar, wave, use };
+  for (let round = 1; round <= EMISSION_ROUNDS; round++) {
     subtractModel(model, wave, inSci, width, skyRows, residual);
-    const more = maskCoherentEmission(width, height, residual, inVar, use, emissionPixels, skyRows, EMISSION_HALF_ROWS);
+    const more = maskCoherentEmission(width, height, residual, inVar, use, emissionPixels, skyRows, EMISSION_HALF_ROWS, round);
     if (more === 0) break;
     masked += more;
-    model = fitSkySpline({ width, height, sci: inSci, var: inVar, wave, use }, settings.order, settings.knotSpacingPx, settings.clipSigma, 0) ?? model;
+    const refit = refitWithout(model, input, skyRows, emissionPixels, round);
+    if (refit === null) break;
+    model = refit;
   }
   if (masked > 0) log.info('sky-emission', `${masked} sky-row pixels with faint line emission left out of the sky fit`, { actual: masked });
 
@@ -188,6 +200,12 @@ function emissionRows(score: Float64Array, usable: Uint8Array, width: number, de
   const base = values.length > 0 ? values[Math.floor(values.length / 4)]! : 0;
   const threshold = base + Math.max(EMISSION_FLOOR, detectSigma * Math.sqrt(width * EXCESS_SQUARE) + width * EXCESS_MEAN);
   return Uint8Array.from(score, (v, y) => (usable[y] && v > threshold ? 1 : 0));
+}
+
+function firstRowStep(rows: Uint8Array): number {
+  let n = 0;
+  for (let y = 0; y < rows.length; y++) n += rows[y]!;
+  return Math.min(FIRST_MAX_STEP, Math.max(2, Math.floor(n / FIRST_MIN_ROWS)));
 }
 
 function selectRows(height: number, usable: Uint8Array, blocked: Uint8Array, edgeRows: number): Uint8Array {

@@ -70,6 +70,21 @@ describe('subtractSky', () => {
     });
   }
 
+  it('on a tall slit (first sky fit on a row in four) finds the faint outer emission and leaves the galaxy within the quoted noise', () => {
+    // Emission to 32 rows from the centre, down to 3000 exp(-32 / 14) ~ 300 e a row in H-alpha.
+    const tall = makeSyntheticFrame({ seed: 9, height: 1300, centreRow: 650 });
+    const r = subtractSky(tall.frame, tall.solution, DEFAULT_SKY_SETTINGS);
+    const [lo, hi] = r.product.sky.galaxyRegion;
+    expect(lo).toBeLessThanOrEqual(650 - 30);
+    expect(hi).toBeGreaterThanOrEqual(650 + 30);
+    expect(hi - lo).toBeLessThan(120);
+    for (const [a, b] of r.product.sky.skyRegions) expect(b < lo || a > hi).toBe(true);
+    const p = pulls(r.product.frame.sci, r.product.frame.var, tall.galaxy, tall.frame.width, [610, 690]);
+    expect(Math.abs(p.mean)).toBeLessThan(0.03);
+    expect(p.std).toBeGreaterThan(0.97);
+    expect(p.std).toBeLessThan(1.03);
+  });
+
   it('leaves sky rows at their noise level per column (normalised residual RMS near 1)', () => {
     const rms = result.product.sky.residualNormRms;
     let worst = 0;
