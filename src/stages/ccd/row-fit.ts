@@ -3,10 +3,17 @@
  * the clipping rule of kernels/legendre-fit.ts (clip |r| > clipSigma sqrt(chi2 / n_kept), points
  * may return, stop when the kept set holds). Faster than one fitLegendre1D per row on full
  * frames: the design matrix and the normal matrix of a fully usable row are built once, and each
- * row or clipping round only subtracts the outer products of the points it leaves out.
+ * row or clipping round only subtracts the outer products of the points it leaves out. The
+ * model is taken at every x only twice per row (after the first fit and at the end): the rounds
+ * between take chi2 from the normal equations and re-test only the points that the model's change
+ * could move across the clipping limit, so every decision, and the result, is that of the plain rule.
  */
 import { choleskyFactor, choleskySolve } from '../../kernels/cholesky.js';
 import { legendreBasis, normalise } from '../../kernels/legendre.js';
+import { addTerms, countOnes, dot, keptSquares, lastTerms, maskRow, modelBound, modelFromResidual, modelTerms, proposeKept, proposeNear, sameCoefficients } from './row-fit-passes.js';
+
+/** chi2 from the normal equations below this fraction of sum y^2 is rounding: taken from the residuals instead. */
+const ROUNDING = 1e-9;
 
 export interface RowFitOptions {
   clipSigma: number;
@@ -35,6 +42,15 @@ export class RowLegendreFitter {
   private readonly trial: Uint8Array;
   /** Stands in for the basis functions past the order in passes of four. */
   private readonly zeros: Float64Array;
+  /** The points where `trial` differs from `kept`, in order of x, and their number. */
+  private readonly changes: Int32Array;
+  private readonly changeCount = new Int32Array(1);
+  /** A pass's four coefficients, then the same for the mirrored x. */
+  private readonly terms = new Float64Array(8);
+  /** The coefficients at which `residual` was last taken at every x. */
+  private readonly reference: Float64Array;
+  /** Sum of squares of the kept values (chi2 = this - coeffs . rhs at the solution). */
+  private sumSquares = 0;
 
   /** Series of `order` over x = 0 .. width - 1 (u = normalise(x, 0, width - 1)). */
   constructor(readonly width: number, readonly order: number) {
@@ -58,6 +74,8 @@ export class RowLegendreFitter {
     this.maskedRow = new Float64Array(width);
     this.trial = new Uint8Array(width);
     this.zeros = new Float64Array(width);
+    this.reference = new Float64Array(nc);
+    this.changes = new Int32Array(width);
   }
 
   /**
@@ -65,28 +83,41 @@ export class RowLegendreFitter {
    * leaves `model` alone) when fewer than 2 (order + 1) points are usable.
    */
   fit(row: ArrayLike<number>, usable: Uint8Array, model: Float32Array, options: RowFitOptions): boolean {
-    const { width, nc, kept, residual, trial } = this;
+    const { width, nc, kept, residual, trial, coeffs, reference } = this;
     const minKept = nc + 1;
     let count = countOnes(usable, width);
     if (count < 2 * nc) return false;
     this.startNormal(usable);
     kept.set(usable);
     // Unusable points enter the right-hand side as exact zeros (adding 0 changes no sum), which keeps its loop branch-free.
-    maskRow(row, usable, this.maskedRow, width);
+    this.sumSquares = maskRow(row, usable, this.maskedRow, width);
     this.startRhs();
     // Each pass over x is a function or method of its own, so V8 compiles this one once.
     for (let iter = 0; ; iter++) {
       if (!this.solve()) return false;
-      const chi2 = this.residuals(row);
+      // The first round's residuals are taken at every x. Later rounds take chi2 from the normal
+      // equations (sum y^2 - c . rhs), unless it is down at rounding level, and test the clipping
+      // from the first residuals and a bound on the model's change, taking again only those near the limit.
+      let chi2 = iter === 0 ? NaN : this.sumSquares - dot(coeffs, this.rhs, nc);
+      const full = !(chi2 > ROUNDING * this.sumSquares);
+      if (full) {
+        chi2 = this.residuals(row);
+        reference.set(coeffs);
+      }
       if (iter >= options.maxIterations || !(chi2 > 0)) break;
       // The new kept set into `trial`, applied only when it holds enough points.
-      const next = proposeKept(usable, residual, options.clipSigma * Math.sqrt(chi2 / count), trial, width);
+      const limit = options.clipSigma * Math.sqrt(chi2 / count);
+      const next = full
+        ? proposeKept(usable, residual, limit, kept, trial, this.changes, this.changeCount, width)
+        : proposeNear(row, usable, residual, limit, modelBound(coeffs, reference, nc, limit), this.design, coeffs, nc, kept, trial, this.changes, this.changeCount, width);
       if (next < minKept) break;
       const changed = this.applyTrial(row);
       count = next;
       if (!changed) break;
     }
-    modelFromResidual(row, residual, model, width);
+    // The model is row - residual, as at the last coefficients' residuals; taken again when those are older.
+    if (sameCoefficients(coeffs, reference, nc)) modelFromResidual(row, residual, model, width);
+    else this.residuals(row, model);
     return true;
   }
 
@@ -112,47 +143,45 @@ export class RowLegendreFitter {
     }
   }
 
-  /** kept = trial, the normal matrix and right-hand side updated point by point; false when nothing changed. */
+  /** kept = trial at the points listed in `changes` (in order of x), the normal matrix and right-hand side updated point by point; false when none changed. */
   private applyTrial(row: ArrayLike<number>): boolean {
-    const { width, normal, kept, trial } = this;
-    let changed = false;
-    for (let x = 0; x < width; x++) {
+    const { normal, kept, trial, changes } = this;
+    const n = this.changeCount[0]!;
+    for (let i = 0; i < n; i++) {
+      const x = changes[i]!;
       const keep = trial[x]!;
-      if (keep === kept[x]) continue;
-      changed = true;
       const sign = keep ? 1 : -1;
       this.accumulate(normal, x, sign);
       this.addRhs(row[x]!, x, sign);
+      this.sumSquares += sign * row[x]! * row[x]!;
       kept[x] = keep;
     }
-    return changed;
+    return n > 0;
   }
 
   /**
    * residual = row - model at every x (the model's terms added in order k = 0, 1, ...); returns
    * chi2 over the kept points. Four basis functions per pass over x, the last pass also taking
-   * the residual and chi2; basis functions past the order enter as zero columns with coefficient
-   * -0 (their terms are -0, which adding leaves every sum as it was, signed zeros included).
+   * the residual; basis functions past the order enter as zero columns with coefficient -0 (their
+   * terms are -0, which adding leaves every sum as it was, signed zeros included). x and its
+   * mirror width - 1 - x share one pass: u is negated exactly, so P_k there is (-1)^k P_k(u)
+   * bit for bit, and the mirror's terms are the same products with the odd coefficients negated.
+   * With `model`, the last pass writes row - residual there instead (and chi2 is not taken).
    */
-  private residuals(row: ArrayLike<number>): number {
-    const { width, nc, coeffs, residual, kept } = this;
+  private residuals(row: ArrayLike<number>, model?: Float32Array): number {
+    const { width, nc, coeffs, residual } = this;
     const c = (k: number): number => (k < nc ? coeffs[k]! : -0);
-    let chi2 = 0;
+    // The mirror's coefficient: negated for odd k within the order (the zero columns' -0 stays).
+    const m = (k: number): number => (k < nc && k % 2 === 1 ? -coeffs[k]! : c(k));
     for (let k = 0; k < nc; k += 4) {
       const [d0, d1, d2, d3] = this.columns(k);
-      const [c0, c1, c2, c3] = [c(k), c(k + 1), c(k + 2), c(k + 3)];
-      const first = k === 0;
-      if (k + 4 < nc) {
-        for (let x = 0; x < width; x++) residual[x] = (first ? 0 : residual[x]!) + d0[x]! * c0 + d1[x]! * c1 + d2[x]! * c2 + d3[x]! * c3;
-        continue;
-      }
-      for (let x = 0; x < width; x++) {
-        const r = row[x]! - ((first ? 0 : residual[x]!) + d0[x]! * c0 + d1[x]! * c1 + d2[x]! * c2 + d3[x]! * c3);
-        residual[x] = r;
-        if (kept[x]) chi2 += r * r;
-      }
+      const terms = [c(k), c(k + 1), c(k + 2), c(k + 3), m(k), m(k + 1), m(k + 2), m(k + 3)] as const;
+      this.terms.set(terms);
+      if (k + 4 < nc) addTerms(d0, d1, d2, d3, this.terms, residual, k === 0, width);
+      else if (model) modelTerms(row, d0, d1, d2, d3, this.terms, residual, k === 0, model, width);
+      else lastTerms(row, d0, d1, d2, d3, this.terms, residual, k === 0, width);
     }
-    return chi2;
+    return model ? NaN : keptSquares(residual, this.kept, width);
   }
 
   /** Basis functions k .. k + 3 by x (zero columns past the order). */
@@ -201,30 +230,4 @@ export class RowLegendreFitter {
     choleskySolve(work, nc, this.coeffs);
     return true;
   }
-}
-
-function countOnes(flags: Uint8Array, width: number): number {
-  let count = 0;
-  for (let x = 0; x < width; x++) count += flags[x]!;
-  return count;
-}
-
-/** masked = row where usable, exact 0 elsewhere. */
-function maskRow(row: ArrayLike<number>, usable: Uint8Array, masked: Float64Array, width: number): void {
-  for (let x = 0; x < width; x++) masked[x] = usable[x] ? row[x]! : 0;
-}
-
-/** trial = usable points with |residual| <= limit; returns their number. */
-function proposeKept(usable: Uint8Array, residual: Float64Array, limit: number, trial: Uint8Array, width: number): number {
-  let next = 0;
-  for (let x = 0; x < width; x++) {
-    const keep = usable[x] && Math.abs(residual[x]!) <= limit ? 1 : 0;
-    trial[x] = keep;
-    next += keep;
-  }
-  return next;
-}
-
-function modelFromResidual(row: ArrayLike<number>, residual: Float64Array, model: Float32Array, width: number): void {
-  for (let x = 0; x < width; x++) model[x] = row[x]! - residual[x]!;
 }
