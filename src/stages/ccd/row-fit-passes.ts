@@ -3,6 +3,13 @@
  * compiles it once.
  */
 
+/** A clipping round's lists: the points whose kept flag changes, the candidates near the limit, and their counts. */
+export interface ProposalLists {
+  changes: Int32Array;
+  candidates: Int32Array;
+  counts: Int32Array;
+}
+
 /**
  * residual[x] = (first ? 0 : residual[x]) + d0[x] c0 + d1[x] c1 + d2[x] c2 + d3[x] c3 at x and,
  * with the mirror's coefficients t[4..7] and the same d values, at width - 1 - x.
@@ -38,7 +45,7 @@ export function lastTerms(row: ArrayLike<number>, d0: Float64Array, d1: Float64A
 }
 
 /** As lastTerms, writing row - residual into model (the residual itself is not kept). */
-export function modelTerms(row: ArrayLike<number>, d0: Float64Array, d1: Float64Array, d2: Float64Array, d3: Float64Array, t: Float64Array, residual: Float64Array, first: boolean, model: Float32Array, width: number): void {
+export function modelTerms(row: ArrayLike<number>, d0: Float64Array, d1: Float64Array, d2: Float64Array, d3: Float64Array, t: Float64Array, residual: Float64Array, first: boolean, model: Float64Array, width: number): void {
   const [c0, c1, c2, c3, m0, m1, m2, m3] = [t[0]!, t[1]!, t[2]!, t[3]!, t[4]!, t[5]!, t[6]!, t[7]!];
   for (let x = 0, y = width - 1; x <= y; x++, y--) {
     const a = d0[x]!;
@@ -105,9 +112,12 @@ export function modelBound(coeffs: Float64Array, reference: Float64Array, nc: nu
 }
 
 /**
- * proposeKept for the current coefficients from the residuals at the reference ones: a point
- * whose reference |residual| is farther than `bound` from the limit keeps its side; the others
- * are tested with their residual taken again.
+ * trial = usable points with |residual at the current coefficients| <= limit, from the residuals
+ * about the reference: a point farther than `bound` (the most the two models differ) from the
+ * limit keeps its side, the others are tested with their residual taken again. The points where
+ * trial differs from kept go into changes, the usable points with a reference |residual| in
+ * [lo, hi] into candidates (both in order of x); counts = [changes, candidates, points kept
+ * outside the candidates]. Returns the number kept.
  */
 export function proposeNear(
   row: ArrayLike<number>,
@@ -120,12 +130,16 @@ export function proposeNear(
   nc: number,
   kept: Uint8Array,
   trial: Uint8Array,
-  changes: Int32Array,
-  changeCount: Int32Array,
+  lists: ProposalLists,
+  lo: number,
+  hi: number,
   width: number,
 ): number {
+  const { changes, candidates, counts } = lists;
   let next = 0;
   let n = 0;
+  let c = 0;
+  let outside = 0;
   for (let x = 0; x < width; x++) {
     const r = Math.abs(residual[x]!);
     let keep = r + bound <= limit ? 1 : 0;
@@ -134,8 +148,13 @@ export function proposeNear(
     trial[x] = keep;
     next += keep;
     if (keep !== kept[x]) changes[n++] = x;
+    const candidate = usable[x] && r >= lo && r <= hi ? 1 : 0;
+    if (candidate) candidates[c++] = x;
+    else outside += keep;
   }
-  changeCount[0] = n;
+  counts[0] = n;
+  counts[1] = c;
+  counts[2] = outside;
   return next;
 }
 
@@ -145,20 +164,38 @@ function modelAt(design: Float64Array, coeffs: Float64Array, x: number, nc: numb
   return m;
 }
 
-/** trial = usable points with |residual| <= limit, the points where it differs from kept into changes; returns the number kept. */
-export function proposeKept(usable: Uint8Array, residual: Float64Array, limit: number, kept: Uint8Array, trial: Uint8Array, changes: Int32Array, changeCount: Int32Array, width: number): number {
-  let next = 0;
+/**
+ * proposeNear over the candidates only, when no other point can change side: every usable point
+ * outside [lo, hi] at the reference lies farther than the bound from the limit (the caller
+ * checks), so it keeps the side proposeNear gave it when listing them. Returns the number kept.
+ */
+export function proposeCandidates(row: ArrayLike<number>, residual: Float64Array, limit: number, bound: number, design: Float64Array, coeffs: Float64Array, nc: number, kept: Uint8Array, trial: Uint8Array, lists: ProposalLists): number {
+  const { changes, candidates, counts } = lists;
+  let next = counts[2]!;
   let n = 0;
-  for (let x = 0; x < width; x++) {
-    const keep = usable[x] && Math.abs(residual[x]!) <= limit ? 1 : 0;
+  for (let i = 0; i < counts[1]!; i++) {
+    const x = candidates[i]!;
+    const r = Math.abs(residual[x]!);
+    let keep = r + bound <= limit ? 1 : 0;
+    if (!keep && r - bound <= limit) keep = Math.abs(row[x]! - modelAt(design, coeffs, x, nc)) <= limit ? 1 : 0;
     trial[x] = keep;
     next += keep;
     if (keep !== kept[x]) changes[n++] = x;
   }
-  changeCount[0] = n;
+  counts[0] = n;
   return next;
 }
 
-export function modelFromResidual(row: ArrayLike<number>, residual: Float64Array, model: Float32Array, width: number): void {
+export function modelFromResidual(row: ArrayLike<number>, residual: Float64Array, model: Float64Array, width: number): void {
   for (let x = 0; x < width; x++) model[x] = row[x]! - residual[x]!;
+}
+
+/** residual = row - s * model. */
+export function scaledResiduals(row: ArrayLike<number>, model: Float64Array, s: number, residual: Float64Array, width: number): void {
+  for (let x = 0; x < width; x++) residual[x] = row[x]! - s * model[x]!;
+}
+
+/** out = model rounded to float32. */
+export function copyModel(model: Float64Array, out: Float32Array, width: number): void {
+  for (let x = 0; x < width; x++) out[x] = model[x]!;
 }

@@ -4,16 +4,21 @@
  * may return, stop when the kept set holds). Faster than one fitLegendre1D per row on full
  * frames: the design matrix and the normal matrix of a fully usable row are built once, and each
  * row or clipping round only subtracts the outer products of the points it leaves out. The
- * model is taken at every x only twice per row (after the first fit and at the end): the rounds
- * between take chi2 from the normal equations and re-test only the points that the model's change
- * could move across the clipping limit, so every decision, and the result, is that of the plain rule.
+ * model is taken at every x once per row, at the end: chi2 comes from the normal equations, and
+ * the clipping rounds test the residuals about a reference model (the last row's, scaled, or the
+ * first fit's), taking again at the current coefficients only the points that the distance to the
+ * reference could move across the limit, so every decision, and the result, is the plain rule's.
  */
 import { choleskyFactor, choleskySolve } from '../../kernels/cholesky.js';
 import { legendreBasis, normalise } from '../../kernels/legendre.js';
-import { addTerms, countOnes, dot, keptSquares, lastTerms, maskRow, modelBound, modelFromResidual, modelTerms, proposeKept, proposeNear, sameCoefficients } from './row-fit-passes.js';
+import { addTerms, copyModel, countOnes, dot, keptSquares, lastTerms, maskRow, modelBound, modelFromResidual, modelTerms, proposeCandidates, proposeNear, sameCoefficients, scaledResiduals, type ProposalLists } from './row-fit-passes.js';
 
 /** chi2 from the normal equations below this fraction of sum y^2 is rounding: taken from the residuals instead. */
 const ROUNDING = 1e-9;
+/** The last row's model serves as the first reference when within this fraction of the clipping limit. */
+const NEAR_FRACTION = 0.25;
+/** Residuals within these fractions of the first limit are the candidates of later rounds (limits move by a few per cent). */
+const CANDIDATE_BAND = [0.7, 1.4] as const;
 
 export interface RowFitOptions {
   clipSigma: number;
@@ -42,15 +47,18 @@ export class RowLegendreFitter {
   private readonly trial: Uint8Array;
   /** Stands in for the basis functions past the order in passes of four. */
   private readonly zeros: Float64Array;
-  /** The points where `trial` differs from `kept`, in order of x, and their number. */
-  private readonly changes: Int32Array;
-  private readonly changeCount = new Int32Array(1);
+  /** The points where `trial` differs from `kept` and the candidates near the limit, in order of x. */
+  private readonly lists: ProposalLists;
   /** A pass's four coefficients, then the same for the mirrored x. */
   private readonly terms = new Float64Array(8);
   /** The coefficients at which `residual` was last taken at every x. */
   private readonly reference: Float64Array;
   /** Sum of squares of the kept values (chi2 = this - coeffs . rhs at the solution). */
   private sumSquares = 0;
+  /** The last row's model (before rounding to float32) and coefficients, once a row has been fitted. */
+  private readonly previous: Float64Array;
+  private readonly previousCoeffs: Float64Array;
+  private previousHolds = false;
 
   /** Series of `order` over x = 0 .. width - 1 (u = normalise(x, 0, width - 1)). */
   constructor(readonly width: number, readonly order: number) {
@@ -75,7 +83,9 @@ export class RowLegendreFitter {
     this.trial = new Uint8Array(width);
     this.zeros = new Float64Array(width);
     this.reference = new Float64Array(nc);
-    this.changes = new Int32Array(width);
+    this.previous = new Float64Array(width);
+    this.previousCoeffs = new Float64Array(nc);
+    this.lists = { changes: new Int32Array(width), candidates: new Int32Array(width), counts: new Int32Array(3) };
   }
 
   /**
@@ -83,7 +93,7 @@ export class RowLegendreFitter {
    * leaves `model` alone) when fewer than 2 (order + 1) points are usable.
    */
   fit(row: ArrayLike<number>, usable: Uint8Array, model: Float32Array, options: RowFitOptions): boolean {
-    const { width, nc, kept, residual, trial, coeffs, reference } = this;
+    const { width, nc, kept, residual, trial, coeffs, reference, lists } = this;
     const minKept = nc + 1;
     let count = countOnes(usable, width);
     if (count < 2 * nc) return false;
@@ -92,32 +102,67 @@ export class RowLegendreFitter {
     // Unusable points enter the right-hand side as exact zeros (adding 0 changes no sum), which keeps its loop branch-free.
     this.sumSquares = maskRow(row, usable, this.maskedRow, width);
     this.startRhs();
+    // `residual` holds row - model(reference) (exact: `exact`), or undefined values (`holds` false).
+    let holds = false;
+    let exact = false;
+    let candidatesHold = false;
+    let lo = 0;
+    let hi = 0;
     // Each pass over x is a function or method of its own, so V8 compiles this one once.
     for (let iter = 0; ; iter++) {
       if (!this.solve()) return false;
-      // The first round's residuals are taken at every x. Later rounds take chi2 from the normal
-      // equations (sum y^2 - c . rhs), unless it is down at rounding level, and test the clipping
-      // from the first residuals and a bound on the model's change, taking again only those near the limit.
-      let chi2 = iter === 0 ? NaN : this.sumSquares - dot(coeffs, this.rhs, nc);
-      const full = !(chi2 > ROUNDING * this.sumSquares);
-      if (full) {
+      let chi2 = this.sumSquares - dot(coeffs, this.rhs, nc);
+      const trusted = chi2 > ROUNDING * this.sumSquares;
+      if (iter === 0 && trusted) holds = this.startFromPrevious(row, options.clipSigma * Math.sqrt(chi2 / count));
+      if (!trusted || !holds) {
         chi2 = this.residuals(row);
         reference.set(coeffs);
+        holds = true;
+        exact = true;
+        candidatesHold = false;
       }
       if (iter >= options.maxIterations || !(chi2 > 0)) break;
       // The new kept set into `trial`, applied only when it holds enough points.
       const limit = options.clipSigma * Math.sqrt(chi2 / count);
-      const next = full
-        ? proposeKept(usable, residual, limit, kept, trial, this.changes, this.changeCount, width)
-        : proposeNear(row, usable, residual, limit, modelBound(coeffs, reference, nc, limit), this.design, coeffs, nc, kept, trial, this.changes, this.changeCount, width);
+      const bound = modelBound(coeffs, reference, nc, limit);
+      // Points far from the limit at which the candidates were listed cannot cross one near it.
+      let next: number;
+      if (candidatesHold && lo + bound <= limit && hi - bound > limit) {
+        next = proposeCandidates(row, residual, limit, bound, this.design, coeffs, nc, kept, trial, lists);
+      } else {
+        lo = CANDIDATE_BAND[0] * limit;
+        hi = CANDIDATE_BAND[1] * limit;
+        next = proposeNear(row, usable, residual, limit, bound, this.design, coeffs, nc, kept, trial, lists, lo, hi, width);
+        candidatesHold = true;
+      }
       if (next < minKept) break;
       const changed = this.applyTrial(row);
       count = next;
       if (!changed) break;
     }
-    // The model is row - residual, as at the last coefficients' residuals; taken again when those are older.
-    if (sameCoefficients(coeffs, reference, nc)) modelFromResidual(row, residual, model, width);
-    else this.residuals(row, model);
+    // The model is row - residual, as at the last coefficients' residuals; taken again when those are other ones'.
+    if (exact && sameCoefficients(coeffs, reference, nc)) modelFromResidual(row, residual, this.previous, width);
+    else this.residuals(row, this.previous);
+    copyModel(this.previous, model, width);
+    this.previousCoeffs.set(coeffs);
+    this.previousHolds = true;
+    return true;
+  }
+
+  /**
+   * residual = row - s * (the last row's model), s = the ratio of the constant terms, when the
+   * bound on the model's distance from it (reference = s * its coefficients) is below
+   * NEAR_FRACTION of the clipping limit: neighbouring rows differ by a scale and noise, so most
+   * points are then decided from it. False when there is no last row or it is too far.
+   */
+  private startFromPrevious(row: ArrayLike<number>, limit: number): boolean {
+    const { nc, coeffs, reference, previousCoeffs } = this;
+    if (!this.previousHolds) return false;
+    const s = coeffs[0]! / previousCoeffs[0]!;
+    if (!(s > 0 && s < Infinity)) return false;
+    for (let k = 0; k < nc; k++) reference[k] = s * previousCoeffs[k]!;
+    if (!(modelBound(coeffs, reference, nc, limit) <= NEAR_FRACTION * limit)) return false;
+    scaledResiduals(row, this.previous, s, this.residual, this.width);
     return true;
   }
 
@@ -145,8 +190,9 @@ export class RowLegendreFitter {
 
   /** kept = trial at the points listed in `changes` (in order of x), the normal matrix and right-hand side updated point by point; false when none changed. */
   private applyTrial(row: ArrayLike<number>): boolean {
-    const { normal, kept, trial, changes } = this;
-    const n = this.changeCount[0]!;
+    const { normal, kept, trial } = this;
+    const { changes, counts } = this.lists;
+    const n = counts[0]!;
     for (let i = 0; i < n; i++) {
       const x = changes[i]!;
       const keep = trial[x]!;
@@ -168,7 +214,7 @@ export class RowLegendreFitter {
    * bit for bit, and the mirror's terms are the same products with the odd coefficients negated.
    * With `model`, the last pass writes row - residual there instead (and chi2 is not taken).
    */
-  private residuals(row: ArrayLike<number>, model?: Float32Array): number {
+  private residuals(row: ArrayLike<number>, model?: Float64Array): number {
     const { width, nc, coeffs, residual } = this;
     const c = (k: number): number => (k < nc ? coeffs[k]! : -0);
     // The mirror's coefficient: negated for odd k within the order (the zero columns' -0 stays).
