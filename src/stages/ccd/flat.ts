@@ -74,6 +74,8 @@ export function normaliseFlat(
   const mask = exclude.slice();
   markUnlit(combined, width, height, settings.illuminationMinimum, mask, knownColumnMedians);
   const model = new Float32Array(n);
+  const flat = new Float32Array(n);
+  const variance = new Float32Array(n);
   const unfitRows: number[] = [];
   const order = settings.flatOrder;
   const fitOptions = { clipSigma: 3, maxIterations: 3 };
@@ -103,6 +105,7 @@ export function normaliseFlat(
     }
     const mean = count > 0 ? sum / count : 1; // normalise the illumination to a mean of 1
     for (let i = 0; i < n; i++) model[i] = values[i % width]! * mean;
+    divideByModel(combined, model, mask, noise, settings.flatMinimum, flat, variance, 0, n);
   } else {
     const fitter = new RowLegendreFitter(width, order);
     const usable = new Uint8Array(width);
@@ -120,17 +123,17 @@ export function normaliseFlat(
           model[y * width + x] = 1;
         }
       }
+      // Each row divided while its values are still in cache.
+      divideByModel(combined, model, mask, noise, settings.flatMinimum, flat, variance, y * width, (y + 1) * width);
     }
   }
-  const flat = new Float32Array(n);
-  const variance = new Float32Array(n);
-  divideByModel(combined, model, mask, noise, settings.flatMinimum, flat, variance);
   return { flat, variance, mask, model, unfitRows };
 }
 
 /**
- * flat = combined / model and its variance, or 1 and 0 (zeroFlat unless outsideData) where the
- * pixel is outsideData or below `minimum`. A function of one loop, so V8 compiles it once.
+ * flat = combined / model and its variance at pixels from .. to - 1, or 1 and 0 (zeroFlat unless
+ * outsideData) where the pixel is outsideData or below `minimum`. A function of one loop, so V8
+ * compiles it once.
  */
 function divideByModel(
   combined: Float32Array,
@@ -140,11 +143,13 @@ function divideByModel(
   minimum: number,
   flat: Float32Array,
   variance: Float32Array,
+  from: number,
+  to: number,
 ): void {
   const g = noise.gain;
   const rnAdu2 = (noise.readNoiseE / g) ** 2;
   const { biasVarianceAdu, count } = noise;
-  for (let i = 0; i < flat.length; i++) {
+  for (let i = from; i < to; i++) {
     const c = combined[i]!;
     const value = c / model[i]!;
     if (mask[i]! & MASK_BITS.outsideData || !(value >= minimum)) {
