@@ -15,6 +15,7 @@ import { checkSameDetector, resolveDetector, type ReferenceFrame } from './detec
 import { CLEAR_AXIS_RATIO, dispersionAxisFromArc } from './dispersion-axis.js';
 import { findBadColumns } from './bad-columns.js';
 import { calibrateExposure, type ExposureCalibration } from './exposure.js';
+import { calibrateRawExposure } from './raw-exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { combineFlats, normaliseFlat } from './flat.js';
 import { overscanLevel, trimFrame, trimWithLevel } from './overscan.js';
@@ -42,8 +43,8 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     }
   }
   // Frames are trimmed one kind at a time and dropped once combined, to keep memory low; the arcs
-  // are trimmed last, into the flats' buffers (fresh full frames cost page faults). The first
-  // arc's overscan is measured here, so the diagnostics keep their order.
+  // are trimmed (or calibrated from raw) last, into the flats' buffers (fresh full frames cost
+  // page faults). The first arc's overscan is measured here, so the diagnostics keep their order.
   const tw = det.data.x1 - det.data.x0;
   const th = det.data.y1 - det.data.y0;
   const arcLevel = overscanLevel(frames.arc[0]!, det, settings.overscanOrder);
@@ -70,8 +71,8 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   flatsMinusBias.length = 0;
   if (combinedFlat) checkFlatLit(combinedFlat.data, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
 
-  const arcTrim = [trimWithLevel(frames.arc[0]!, det, arcLevel, true, { data: spare.pop() })];
-  const evidence = dispersionAxisFromArc(arcTrim[0]!.data, bias.data, tw, th);
+  const firstArc = trimWithLevel(frames.arc[0]!, det, arcLevel, true, { data: spare.pop() });
+  const evidence = dispersionAxisFromArc(firstArc.data, bias.data, tw, th);
   const clear = evidence.ratio >= CLEAR_AXIS_RATIO || evidence.ratio <= 1 / CLEAR_AXIS_RATIO;
   let axis = settings.dispersionAxis === 'auto' ? evidence.axis : settings.dispersionAxis;
   if (settings.dispersionAxis === 'auto' && !clear) {
@@ -119,17 +120,26 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     flatMask = badInternal.data;
   }
   // Dead now, unless a product shares their memory: the combined flat, the flat's smooth model and the bad-column images.
-  const live = [masterBias, masterFlat, flatVariance, flatMask, arcTrim[0]!.data, arcTrim[0]!.mask];
+  const live = [masterBias, masterFlat, flatVariance, flatMask, firstArc.data, firstArc.mask];
   const spareData = unshared([...spare, ...[combinedFlat?.data, combinedInternal, flatModel].filter((a) => a != null)], live);
   const spareMask = unshared([badRaw, badInternal.data], live);
-  for (const f of frames.arc.slice(1)) arcTrim.push(trimFrame(f, det, settings.overscanOrder, true, { data: spareData.pop(), mask: spareMask.pop() }));
 
   const exposureCal: ExposureCalibration = {
     orientation, width, height, gain: det.gain, readNoiseE: det.readNoiseE,
     masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask,
   };
   const arcInfos = frames.arc.map((f) => exposureInfo(f, false));
-  const arcExposures = arcTrim.map((t) => calibrateExposure(t, exposureCal, spareData.pop()));
+  // The arcs after the first go from raw to calibrated in one pass when nothing is reoriented
+  // (the same values as trimming and calibrating); the first was trimmed for the axis evidence.
+  const n = width * height;
+  const arcExposures = [
+    calibrateExposure(firstArc, exposureCal, spareData.pop()),
+    ...frames.arc.slice(1).map((f) =>
+      same
+        ? calibrateRawExposure(f, det, overscanLevel(f, det, settings.overscanOrder), exposureCal, { sci: spareData.pop() ?? new Float32Array(n), var: spareData.pop() ?? new Float32Array(n), mask: spareMask.pop() ?? new Uint16Array(n) })
+        : calibrateExposure(trimFrame(f, det, settings.overscanOrder, true, { data: spareData.pop(), mask: spareMask.pop() }), exposureCal, spareData.pop()),
+    ),
+  ];
   const arcCombined = combineExposures(arcExposures, arcInfos.map((e) => e.exptimeS), exposureCal, settings);
   if (arcCombined.hits > 0) log.info('arc-cosmic-rays', `${arcCombined.hits} cosmic-ray pixel(s) rejected in the arc combination`, { actual: arcCombined.hits });
   const arc: CalibratedFrame = {
