@@ -71,8 +71,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   flatsMinusBias.length = 0;
   if (combinedFlat) checkFlatLit(combinedFlat.data, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
 
-  const firstArc = trimWithLevel(frames.arc[0]!, det, arcLevel, true, { data: spare.pop() });
-  const evidence = dispersionAxisFromArc(firstArc.data, bias.data, tw, th);
+  const evidence = dispersionAxisFromArc(frames.arc[0]!, det, arcLevel, bias.data, tw, th);
   const clear = evidence.ratio >= CLEAR_AXIS_RATIO || evidence.ratio <= 1 / CLEAR_AXIS_RATIO;
   let axis = settings.dispersionAxis === 'auto' ? evidence.axis : settings.dispersionAxis;
   if (settings.dispersionAxis === 'auto' && !clear) {
@@ -120,7 +119,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     flatMask = badInternal.data;
   }
   // Dead now, unless a product shares their memory: the combined flat, the flat's smooth model and the bad-column images.
-  const live = [masterBias, masterFlat, flatVariance, flatMask, firstArc.data, firstArc.mask];
+  const live = [masterBias, masterFlat, flatVariance, flatMask];
   const spareData = unshared([...spare, ...[combinedFlat?.data, combinedInternal, flatModel].filter((a) => a != null)], live);
   const spareMask = unshared([badRaw, badInternal.data], live);
 
@@ -129,17 +128,14 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask,
   };
   const arcInfos = frames.arc.map((f) => exposureInfo(f, false));
-  // The arcs after the first go from raw to calibrated in one pass when nothing is reoriented
-  // (the same values as trimming and calibrating); the first was trimmed for the axis evidence.
+  // The arcs go from raw to calibrated in one pass when nothing is reoriented (the same values as
+  // trimming and calibrating), into dead buffers while there are some.
   const n = width * height;
-  const arcExposures = [
-    calibrateExposure(firstArc, exposureCal, spareData.pop()),
-    ...frames.arc.slice(1).map((f) =>
-      same
-        ? calibrateRawExposure(f, det, overscanLevel(f, det, settings.overscanOrder), exposureCal, { sci: spareData.pop() ?? new Float32Array(n), var: spareData.pop() ?? new Float32Array(n), mask: spareMask.pop() ?? new Uint16Array(n) })
-        : calibrateExposure(trimFrame(f, det, settings.overscanOrder, true, { data: spareData.pop(), mask: spareMask.pop() }), exposureCal, spareData.pop()),
-    ),
-  ];
+  const arcExposures = frames.arc.map((f, i) => {
+    const level = i === 0 ? arcLevel : overscanLevel(f, det, settings.overscanOrder);
+    if (same) return calibrateRawExposure(f, det, level, exposureCal, { sci: spareData.pop() ?? new Float32Array(n), var: spareData.pop() ?? new Float32Array(n), mask: spareMask.pop() ?? new Uint16Array(n) });
+    return calibrateExposure(trimWithLevel(f, det, level, true, { data: spareData.pop(), mask: spareMask.pop() }), exposureCal, spareData.pop());
+  });
   const arcCombined = combineExposures(arcExposures, arcInfos.map((e) => e.exptimeS), exposureCal, settings);
   if (arcCombined.hits > 0) log.info('arc-cosmic-rays', `${arcCombined.hits} cosmic-ray pixel(s) rejected in the arc combination`, { actual: arcCombined.hits });
   const arc: CalibratedFrame = {
