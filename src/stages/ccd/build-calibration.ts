@@ -18,7 +18,7 @@ import { calibrateExposure, type ExposureCalibration } from './exposure.js';
 import { calibrateRawExposure } from './raw-exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { combineFlats, normaliseFlat } from './flat.js';
-import { overscanLevel, trimFrame, trimWithLevel } from './overscan.js';
+import { overscanLevel, trimMinusBias, trimWithLevel } from './overscan.js';
 import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 export interface CalibrationFrames {
@@ -59,12 +59,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   }
   const bias = combineBias(frames.bias, det, settings.overscanOrder, settings);
   if (bias.count === 0) log.warn('no-bias', 'no bias frames: only the overscan is subtracted');
-  const minusBias = (data: Float32Array): Float32Array => {
-    for (let i = 0; i < data.length; i++) data[i] = data[i]! - bias.data[i]!;
-    return data;
-  };
-
-  const flatsMinusBias = frames.flat.map((f) => minusBias(trimFrame(f, det, settings.overscanOrder, false).data));
+  const flatsMinusBias = frames.flat.map((f) => trimMinusBias(f, det, overscanLevel(f, det, settings.overscanOrder), bias.data));
   const combinedFlat = flatsMinusBias.length > 0 ? combineFlats(flatsMinusBias, det.gain, det.readNoiseE, settings) : null;
   // The combination consumed the flats: their buffers are dead (unless the result shares one).
   const spare = combinedFlat ? unshared(flatsMinusBias, [combinedFlat.data]) : [];

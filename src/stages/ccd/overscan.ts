@@ -73,6 +73,26 @@ export function trimLines(frame: RawFrame, det: Detector, level: OverscanLevel, 
   }
 }
 
+/**
+ * The trimmed frame (overscan `level` subtracted, float32) minus `bias` (each difference rounded
+ * to float32), line by line: each line is taken off the bias while in cache. No mask.
+ */
+export function trimMinusBias(frame: RawFrame, det: Detector, level: OverscanLevel, bias: Float32Array): Float32Array {
+  const width = det.data.x1 - det.data.x0;
+  const height = det.data.y1 - det.data.y0;
+  const out = new Float32Array(width * height);
+  for (let y = 0; y < height; y++) {
+    const line = out.subarray(y * width, (y + 1) * width);
+    trimLines(frame, det, level, y, y + 1, line, null);
+    subtractLine(line, bias, y * width);
+  }
+  return out;
+}
+
+function subtractLine(line: Float32Array, bias: Float32Array, from: number): void {
+  for (let x = 0; x < line.length; x++) line[x] = line[x]! - bias[from + x]!;
+}
+
 // One line each, in functions of one loop: the tests on the mask and the strip direction are
 // taken once per line, not per pixel. The level is subtracted and saturation marked in one pass.
 
