@@ -18,7 +18,8 @@ import { calibrateExposure, type ExposureCalibration } from './exposure.js';
 import { calibrateRawExposure } from './raw-exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { combineFlats, normaliseFlat } from './flat.js';
-import { overscanLevel, trimMinusBias, trimWithLevel } from './overscan.js';
+import { flatsFromRaw } from './flat-source.js';
+import { overscanLevel, trimWithLevel } from './overscan.js';
 import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 export interface CalibrationFrames {
@@ -42,9 +43,9 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
       log.warn('gain-differs', `GAIN ${d.gain} differs from ${det.gain} of ${first.path}; using ${det.gain}`, { place: { file: f.path } });
     }
   }
-  // Frames are trimmed one kind at a time and dropped once combined, to keep memory low; the arcs
-  // are trimmed (or calibrated from raw) last, into the flats' buffers (fresh full frames cost
-  // page faults). The first arc's overscan is measured here, so the diagnostics keep their order.
+  // Frames are combined one kind at a time, to keep memory low; the arcs are calibrated last, into
+  // dead buffers where there are some (fresh full frames cost page faults). The first arc's
+  // overscan is measured here, so the diagnostics keep their order.
   const tw = det.data.x1 - det.data.x0;
   const th = det.data.y1 - det.data.y0;
   const arcLevel = overscanLevel(frames.arc[0]!, det, settings.overscanOrder);
@@ -59,11 +60,9 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   }
   const bias = combineBias(frames.bias, det, settings.overscanOrder, settings);
   if (bias.count === 0) log.warn('no-bias', 'no bias frames: only the overscan is subtracted');
-  const flatsMinusBias = frames.flat.map((f) => trimMinusBias(f, det, overscanLevel(f, det, settings.overscanOrder), bias.data));
-  const combinedFlat = flatsMinusBias.length > 0 ? combineFlats(flatsMinusBias, det.gain, det.readNoiseE, settings) : null;
-  // The combination consumed the flats: their buffers are dead (unless the result shares one).
-  const spare = combinedFlat ? unshared(flatsMinusBias, [combinedFlat.data]) : [];
-  flatsMinusBias.length = 0;
+  // The flats are trimmed, taken off the bias and scaled a block of lines at a time as they are combined.
+  const flatLevels = frames.flat.map((f) => overscanLevel(f, det, settings.overscanOrder));
+  const combinedFlat = frames.flat.length > 0 ? combineFlats(flatsFromRaw(frames.flat, det, flatLevels, bias.data), det.gain, det.readNoiseE, settings) : null;
   if (combinedFlat) checkFlatLit(combinedFlat.data, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
 
   const evidence = dispersionAxisFromArc(frames.arc[0]!, det, arcLevel, bias.data, tw, th);
@@ -115,7 +114,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   }
   // Dead now, unless a product shares their memory: the combined flat, the flat's smooth model and the bad-column images.
   const live = [masterBias, masterFlat, flatVariance, flatMask];
-  const spareData = unshared([...spare, ...[combinedFlat?.data, combinedInternal, flatModel].filter((a) => a != null)], live);
+  const spareData = unshared([combinedFlat?.data, combinedInternal, flatModel].filter((a) => a != null), live);
   const spareMask = unshared([badRaw, badInternal.data], live);
 
   const exposureCal: ExposureCalibration = {

@@ -73,24 +73,12 @@ export function trimLines(frame: RawFrame, det: Detector, level: OverscanLevel, 
   }
 }
 
-/**
- * The trimmed frame (overscan `level` subtracted, float32) minus `bias` (each difference rounded
- * to float32), line by line: each line is taken off the bias while in cache. No mask.
- */
-export function trimMinusBias(frame: RawFrame, det: Detector, level: OverscanLevel, bias: Float32Array): Float32Array {
-  const width = det.data.x1 - det.data.x0;
-  const height = det.data.y1 - det.data.y0;
-  const out = new Float32Array(width * height);
-  for (let y = 0; y < height; y++) {
-    const line = out.subarray(y * width, (y + 1) * width);
-    trimLines(frame, det, level, y, y + 1, line, null);
-    subtractLine(line, bias, y * width);
-  }
-  return out;
-}
-
-function subtractLine(line: Float32Array, bias: Float32Array, from: number): void {
-  for (let x = 0; x < line.length; x++) line[x] = line[x]! - bias[from + x]!;
+/** The trimmed value (overscan `level` subtracted, rounded to float32) at x, y of the data section, as trimLines gives it. */
+export function trimmedValue(frame: RawFrame, det: Detector, level: OverscanLevel, x: number, y: number): number {
+  const s = det.data;
+  const v = frame.data[(y + s.y0) * frame.width + s.x0 + x]!;
+  const l = level.along === 'x' ? level.values[s.x0 + x]! : level.along === 'y' ? level.values[y + s.y0]! : 0;
+  return Math.fround(v - l);
 }
 
 // One line each, in functions of one loop: the tests on the mask and the strip direction are
