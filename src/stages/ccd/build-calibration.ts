@@ -5,7 +5,6 @@
 import { DiagnosticLog } from '../../diagnostics.js';
 import { InputError, StageError } from '../../errors.js';
 import { giveBack } from '../../kernels/frame-pool.js';
-import { medianOfBuffer } from '../../kernels/robust.js';
 import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from '../../products/frame.js';
 import { toInternal } from '../../products/orientation.js';
 import { combineBias } from './bias.js';
@@ -63,7 +62,7 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   // The flats are trimmed, taken off the bias and scaled a block of lines at a time as they are combined.
   const flatLevels = frames.flat.map((f) => overscanLevel(f, det, settings.overscanOrder));
   const combinedFlat = frames.flat.length > 0 ? combineFlats(flatsFromRaw(frames.flat, det, flatLevels, bias.data), det.gain, det.readNoiseE, settings) : null;
-  if (combinedFlat) checkFlatLit(combinedFlat.data, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
+  if (combinedFlat) checkFlatLit(combinedFlat.levelAdu, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
 
   const evidence = dispersionAxisFromArc(frames.arc[0]!, det, arcLevel, bias.data, tw, th);
   const clear = evidence.ratio >= CLEAR_AXIS_RATIO || evidence.ratio <= 1 / CLEAR_AXIS_RATIO;
@@ -161,15 +160,12 @@ function unshared<T extends Float32Array | Uint16Array>(candidates: T[], live: (
 const FLAT_MIN_MEDIAN_SIGMAS = 20;
 
 /**
- * The combined flat (ADU above the bias) must hold lamp light: normalising noise by a fit to noise
- * gives a flat of random factors. A StageError names the frames (most often bias or dark frames
- * listed as flats); the sample of every 16th pixel is plenty for a median.
+ * The flats (ADU above the bias) must hold lamp light: normalising noise by a fit to noise gives
+ * a flat of random factors. `level`: the combination's common level, the mean of the flats'
+ * sampled medians (the combined flat's median is that level, as every flat is scaled to it). A
+ * StageError names the frames (most often bias or dark frames listed as flats).
  */
-function checkFlatLit(flat: Float32Array, readNoiseAdu: number, paths: string[]): void {
-  const step = 16;
-  const sample = new Float32Array(Math.ceil(flat.length / step));
-  for (let i = 0, k = 0; i < flat.length; i += step) sample[k++] = flat[i]!;
-  const level = medianOfBuffer(sample, sample.length);
+function checkFlatLit(level: number, readNoiseAdu: number, paths: string[]): void {
   if (level >= FLAT_MIN_MEDIAN_SIGMAS * readNoiseAdu) return;
   throw new StageError('ccd', 'flat-unlit', `the flat frames (${paths.join(', ')}) hold no lamp light: median ${level.toFixed(1)} ADU above the bias, below ${FLAT_MIN_MEDIAN_SIGMAS} times the read noise (${(FLAT_MIN_MEDIAN_SIGMAS * readNoiseAdu).toFixed(1)} ADU); check that they are lamp flats`);
 }
