@@ -67,7 +67,15 @@ export function clippedMeanStack(stack: readonly Float32Array[], out: Float32Arr
  * above rounding, on the safe side of the exact rule.
  */
 function keepsAll(low: number, high: number, nSigma: number, noise: { constant: number; perSignal: number }): boolean {
-  const band = nSigma * Math.sqrt(noise.constant + noise.perSignal * (low > 0 ? low : 0));
+  return fitsBand(low, high, quickBand(low, nSigma, noise));
+}
+
+/** keepsAll's band: nSigma times the scale at the minimum. */
+function quickBand(low: number, nSigma: number, noise: { constant: number; perSignal: number }): number {
+  return nSigma * Math.sqrt(noise.constant + noise.perSignal * (low > 0 ? low : 0));
+}
+
+function fitsBand(low: number, high: number, band: number): boolean {
   return (high - low) * (1 + 1e-9) + 1e-12 * (Math.abs(low) + Math.abs(high)) <= band;
 }
 
@@ -120,6 +128,9 @@ function smallStack(stack: readonly Float32Array[], options: StackClipOptions, n
   const n = stack.length;
   const [s0, s1, s2, s3, s4] = Array.from({ length: QUICK_MAX }, (_, i) => stack[Math.min(i, n - 1)]!);
   const failed = new Int32Array(CHUNK);
+  // Without a signal term (a bias) the band is the same at every pixel (the same value: the
+  // signal term is 0 for every finite minimum, and an infinite one fails either way).
+  const fixedBand = noise.perSignal === 0 ? quickBand(0, options.nSigma, noise) : NaN;
   for (let p0 = 0; p0 < out.length; p0 += CHUNK) {
     const p1 = Math.min(out.length, p0 + CHUNK);
     let count = 0;
@@ -167,7 +178,7 @@ function smallStack(stack: readonly Float32Array[], options: StackClipOptions, n
       if (kept) kept[p] = n;
       // A NaN sum: a NaN value (the sorted path skips it) or opposite infinities (which fail the test).
       failed[count] = p;
-      count += +!(sum === sum && keepsAll(low, high, options.nSigma, noise));
+      count += +!(sum === sum && fitsBand(low, high, fixedBand === fixedBand ? fixedBand : quickBand(low, options.nSigma, noise)));
     }
     const odd = n === 3 || n === 5;
     for (let j = 0; j < count; j++) {

@@ -5,7 +5,6 @@
 import { DiagnosticLog } from '../../diagnostics.js';
 import { InputError, StageError } from '../../errors.js';
 import { giveBack } from '../../kernels/frame-pool.js';
-import { medianOfBuffer } from '../../kernels/robust.js';
 import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from '../../products/frame.js';
 import { toInternal } from '../../products/orientation.js';
 import { combineBias } from './bias.js';
@@ -15,9 +14,11 @@ import { checkSameDetector, resolveDetector, type ReferenceFrame } from './detec
 import { CLEAR_AXIS_RATIO, dispersionAxisFromArc } from './dispersion-axis.js';
 import { findBadColumns } from './bad-columns.js';
 import { calibrateExposure, type ExposureCalibration } from './exposure.js';
+import { calibrateRawExposure } from './raw-exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { combineFlats, normaliseFlat } from './flat.js';
-import { overscanLevel, trimFrame, trimWithLevel } from './overscan.js';
+import { flatsFromRaw } from './flat-source.js';
+import { overscanLevel, trimWithLevel } from './overscan.js';
 import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 export interface CalibrationFrames {
@@ -41,9 +42,9 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
       log.warn('gain-differs', `GAIN ${d.gain} differs from ${det.gain} of ${first.path}; using ${det.gain}`, { place: { file: f.path } });
     }
   }
-  // Frames are trimmed one kind at a time and dropped once combined, to keep memory low; the arcs
-  // are trimmed last, into the flats' buffers (fresh full frames cost page faults). The first
-  // arc's overscan is measured here, so the diagnostics keep their order.
+  // Frames are combined one kind at a time, to keep memory low; the arcs are calibrated last, into
+  // dead buffers where there are some (fresh full frames cost page faults). The first arc's
+  // overscan is measured here, so the diagnostics keep their order.
   const tw = det.data.x1 - det.data.x0;
   const th = det.data.y1 - det.data.y0;
   const arcLevel = overscanLevel(frames.arc[0]!, det, settings.overscanOrder);
@@ -58,20 +59,12 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
   }
   const bias = combineBias(frames.bias, det, settings.overscanOrder, settings);
   if (bias.count === 0) log.warn('no-bias', 'no bias frames: only the overscan is subtracted');
-  const minusBias = (data: Float32Array): Float32Array => {
-    for (let i = 0; i < data.length; i++) data[i] = data[i]! - bias.data[i]!;
-    return data;
-  };
+  // The flats are trimmed, taken off the bias and scaled a block of lines at a time as they are combined.
+  const flatLevels = frames.flat.map((f) => overscanLevel(f, det, settings.overscanOrder));
+  const combinedFlat = frames.flat.length > 0 ? combineFlats(flatsFromRaw(frames.flat, det, flatLevels, bias.data), det.gain, det.readNoiseE, settings) : null;
+  if (combinedFlat) checkFlatLit(combinedFlat.levelAdu, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
 
-  const flatsMinusBias = frames.flat.map((f) => minusBias(trimFrame(f, det, settings.overscanOrder, false).data));
-  const combinedFlat = flatsMinusBias.length > 0 ? combineFlats(flatsMinusBias, det.gain, det.readNoiseE, settings) : null;
-  // The combination consumed the flats: their buffers are dead (unless the result shares one).
-  const spare = combinedFlat ? unshared(flatsMinusBias, [combinedFlat.data]) : [];
-  flatsMinusBias.length = 0;
-  if (combinedFlat) checkFlatLit(combinedFlat.data, det.readNoiseE / det.gain, frames.flat.map((f) => f.path));
-
-  const arcTrim = [trimWithLevel(frames.arc[0]!, det, arcLevel, true, { data: spare.pop() })];
-  const evidence = dispersionAxisFromArc(arcTrim[0]!.data, bias.data, tw, th);
+  const evidence = dispersionAxisFromArc(frames.arc[0]!, det, arcLevel, bias.data, tw, th);
   const clear = evidence.ratio >= CLEAR_AXIS_RATIO || evidence.ratio <= 1 / CLEAR_AXIS_RATIO;
   let axis = settings.dispersionAxis === 'auto' ? evidence.axis : settings.dispersionAxis;
   if (settings.dispersionAxis === 'auto' && !clear) {
@@ -119,17 +112,23 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     flatMask = badInternal.data;
   }
   // Dead now, unless a product shares their memory: the combined flat, the flat's smooth model and the bad-column images.
-  const live = [masterBias, masterFlat, flatVariance, flatMask, arcTrim[0]!.data, arcTrim[0]!.mask];
-  const spareData = unshared([...spare, ...[combinedFlat?.data, combinedInternal, flatModel].filter((a) => a != null)], live);
+  const live = [masterBias, masterFlat, flatVariance, flatMask];
+  const spareData = unshared([combinedFlat?.data, combinedInternal, flatModel].filter((a) => a != null), live);
   const spareMask = unshared([badRaw, badInternal.data], live);
-  for (const f of frames.arc.slice(1)) arcTrim.push(trimFrame(f, det, settings.overscanOrder, true, { data: spareData.pop(), mask: spareMask.pop() }));
 
   const exposureCal: ExposureCalibration = {
     orientation, width, height, gain: det.gain, readNoiseE: det.readNoiseE,
     masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask,
   };
   const arcInfos = frames.arc.map((f) => exposureInfo(f, false));
-  const arcExposures = arcTrim.map((t) => calibrateExposure(t, exposureCal, spareData.pop()));
+  // The arcs go from raw to calibrated in one pass when nothing is reoriented (the same values as
+  // trimming and calibrating), into dead buffers while there are some.
+  const n = width * height;
+  const arcExposures = frames.arc.map((f, i) => {
+    const level = i === 0 ? arcLevel : overscanLevel(f, det, settings.overscanOrder);
+    if (same) return calibrateRawExposure(f, det, level, exposureCal, { sci: spareData.pop() ?? new Float32Array(n), var: spareData.pop() ?? new Float32Array(n), mask: spareMask.pop() ?? new Uint16Array(n) });
+    return calibrateExposure(trimWithLevel(f, det, level, true, { data: spareData.pop(), mask: spareMask.pop() }), exposureCal, spareData.pop());
+  });
   const arcCombined = combineExposures(arcExposures, arcInfos.map((e) => e.exptimeS), exposureCal, settings);
   if (arcCombined.hits > 0) log.info('arc-cosmic-rays', `${arcCombined.hits} cosmic-ray pixel(s) rejected in the arc combination`, { actual: arcCombined.hits });
   const arc: CalibratedFrame = {
@@ -161,15 +160,12 @@ function unshared<T extends Float32Array | Uint16Array>(candidates: T[], live: (
 const FLAT_MIN_MEDIAN_SIGMAS = 20;
 
 /**
- * The combined flat (ADU above the bias) must hold lamp light: normalising noise by a fit to noise
- * gives a flat of random factors. A StageError names the frames (most often bias or dark frames
- * listed as flats); the sample of every 16th pixel is plenty for a median.
+ * The flats (ADU above the bias) must hold lamp light: normalising noise by a fit to noise gives
+ * a flat of random factors. `level`: the combination's common level, the mean of the flats'
+ * sampled medians (the combined flat's median is that level, as every flat is scaled to it). A
+ * StageError names the frames (most often bias or dark frames listed as flats).
  */
-function checkFlatLit(flat: Float32Array, readNoiseAdu: number, paths: string[]): void {
-  const step = 16;
-  const sample = new Float32Array(Math.ceil(flat.length / step));
-  for (let i = 0, k = 0; i < flat.length; i += step) sample[k++] = flat[i]!;
-  const level = medianOfBuffer(sample, sample.length);
+function checkFlatLit(level: number, readNoiseAdu: number, paths: string[]): void {
   if (level >= FLAT_MIN_MEDIAN_SIGMAS * readNoiseAdu) return;
   throw new StageError('ccd', 'flat-unlit', `the flat frames (${paths.join(', ')}) hold no lamp light: median ${level.toFixed(1)} ADU above the bias, below ${FLAT_MIN_MEDIAN_SIGMAS} times the read noise (${(FLAT_MIN_MEDIAN_SIGMAS * readNoiseAdu).toFixed(1)} ADU); check that they are lamp flats`);
 }

@@ -3,6 +3,9 @@
  * dispersion and extended along the slit, so neighbour differences across the lines (along the
  * dispersion) are much larger than along them. Noise and cosmic rays add to both equally.
  */
+import type { RawFrame } from '../../products/frame.js';
+import type { Detector } from './detector.js';
+import { trimLines, type OverscanLevel } from './overscan.js';
 
 export interface AxisEvidence {
   axis: 'x' | 'y';
@@ -14,18 +17,21 @@ export interface AxisEvidence {
 export const CLEAR_AXIS_RATIO = 1.5;
 
 /**
- * `arc` minus `bias` (each difference rounded to float32, as a bias-subtracted frame holds it),
- * width x height. Two bias-subtracted lines at a time instead of a bias-subtracted copy of the frame.
+ * The first arc's trimmed lines (overscan `level` subtracted, float32) minus `bias` (each
+ * difference rounded to float32, as a bias-subtracted frame holds it), width x height. Trimmed and
+ * bias-subtracted two lines at a time instead of a trimmed copy of the frame.
  */
-export function dispersionAxisFromArc(arc: Float32Array, bias: Float32Array, width: number, height: number): AxisEvidence {
+export function dispersionAxisFromArc(arc: RawFrame, det: Detector, level: OverscanLevel, bias: Float32Array, width: number, height: number): AxisEvidence {
   let dx = 0;
   let dy = 0;
+  const trimmed = new Float32Array(width);
   let line = new Float32Array(width);
   let below = new Float32Array(width);
-  for (let x = 0; x < width; x++) line[x] = arc[x]! - bias[x]!;
+  trimLines(arc, det, level, 0, 1, trimmed, null);
+  minusBiasLine(trimmed, bias, 0, line);
   for (let y = 0; y < height - 1; y++) {
-    const next = (y + 1) * width;
-    for (let x = 0; x < width; x++) below[x] = arc[next + x]! - bias[next + x]!;
+    trimLines(arc, det, level, y + 1, y + 2, trimmed, null);
+    minusBiasLine(trimmed, bias, (y + 1) * width, below);
     for (let x = 0; x < width - 1; x++) {
       const v = line[x]!;
       dx += Math.abs(line[x + 1]! - v);
@@ -35,4 +41,9 @@ export function dispersionAxisFromArc(arc: Float32Array, bias: Float32Array, wid
   }
   const ratio = dy > 0 ? dx / dy : Infinity;
   return { axis: ratio >= 1 ? 'x' : 'y', ratio };
+}
+
+/** out = trimmed - bias[from ..] (rounded to float32). */
+function minusBiasLine(trimmed: Float32Array, bias: Float32Array, from: number, out: Float32Array): void {
+  for (let x = 0; x < out.length; x++) out[x] = trimmed[x]! - bias[from + x]!;
 }

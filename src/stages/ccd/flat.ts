@@ -11,6 +11,7 @@ import { evalLegendre1D } from '../../kernels/legendre.js';
 import { median } from '../../kernels/robust.js';
 import { MASK_BITS } from '../../products/frame.js';
 import { columnMedians } from './bad-columns.js';
+import type { FlatSource } from './flat-source.js';
 import { sampledMedian } from './level.js';
 import { RowLegendreFitter } from './row-fit.js';
 import type { CcdSettings } from './settings.js';
@@ -23,23 +24,39 @@ export interface CombinedFlat {
   count: number;
 }
 
-/** `frames`: bias-subtracted flats, ADU, each scaled in place by levelAdu / its own sampled median. */
-export function combineFlats(frames: Float32Array[], gain: number, readNoiseE: number, settings: CcdSettings): CombinedFlat {
-  const levels = frames.map(sampledMedian);
+/** Lines combined at a time (small buffers instead of whole scaled frames). */
+const BLOCK_LINES = 64;
+
+/**
+ * The flats of `source` (bias-subtracted, ADU), each scaled by levelAdu / its own sampled
+ * median (the product rounded to float32, as a scaled frame holds it) and combined with
+ * clipping, a block of lines at a time.
+ */
+export function combineFlats(source: FlatSource, gain: number, readNoiseE: number, settings: CcdSettings): CombinedFlat {
+  const { width, height, count } = source;
+  const n = width * height;
+  const levels = Array.from({ length: count }, (_, i) => sampledMedian(n, (p) => source.valueAt(i, p)));
   const levelAdu = levels.reduce((a, b) => a + b, 0) / levels.length;
-  const scaled = frames.map((f, i) => {
-    const k = levelAdu / levels[i]!;
-    for (let p = 0; p < f.length; p++) f[p] = f[p]! * k;
-    return f;
-  });
-  const data = new Float32Array(frames[0]!.length);
+  const scales = levels.map((l) => levelAdu / l);
+  const data = new Float32Array(n);
   const rnAdu = readNoiseE / gain;
-  clippedMeanStack(scaled, data, {
-    nSigma: settings.combineSigma,
-    maxIterations: settings.combineIterations,
-    noise: { constant: rnAdu * rnAdu, perSignal: 1 / gain },
-  });
-  return { data, levelAdu, count: frames.length };
+  const options = { nSigma: settings.combineSigma, maxIterations: settings.combineIterations, noise: { constant: rnAdu * rnAdu, perSignal: 1 / gain } };
+  const blocks = levels.map(() => new Float32Array(BLOCK_LINES * width));
+  for (let y0 = 0; y0 < height; y0 += BLOCK_LINES) {
+    const y1 = Math.min(height, y0 + BLOCK_LINES);
+    const lines = blocks.map((b, i) => {
+      const block = b.subarray(0, (y1 - y0) * width);
+      source.lines(i, y0, y1, block);
+      scaleBlock(block, scales[i]!);
+      return block;
+    });
+    clippedMeanStack(lines, data.subarray(y0 * width, y1 * width), options);
+  }
+  return { data, levelAdu, count };
+}
+
+function scaleBlock(block: Float32Array, k: number): void {
+  for (let p = 0; p < block.length; p++) block[p] = block[p]! * k;
 }
 
 export interface NormalisedFlat {
@@ -74,6 +91,8 @@ export function normaliseFlat(
   const mask = exclude.slice();
   markUnlit(combined, width, height, settings.illuminationMinimum, mask, knownColumnMedians);
   const model = new Float32Array(n);
+  const flat = new Float32Array(n);
+  const variance = new Float32Array(n);
   const unfitRows: number[] = [];
   const order = settings.flatOrder;
   const fitOptions = { clipSigma: 3, maxIterations: 3 };
@@ -103,6 +122,7 @@ export function normaliseFlat(
     }
     const mean = count > 0 ? sum / count : 1; // normalise the illumination to a mean of 1
     for (let i = 0; i < n; i++) model[i] = values[i % width]! * mean;
+    divideByModel(combined, model, mask, noise, settings.flatMinimum, flat, variance, 0, n);
   } else {
     const fitter = new RowLegendreFitter(width, order);
     const usable = new Uint8Array(width);
@@ -120,17 +140,17 @@ export function normaliseFlat(
           model[y * width + x] = 1;
         }
       }
+      // Each row divided while its values are still in cache.
+      divideByModel(combined, model, mask, noise, settings.flatMinimum, flat, variance, y * width, (y + 1) * width);
     }
   }
-  const flat = new Float32Array(n);
-  const variance = new Float32Array(n);
-  divideByModel(combined, model, mask, noise, settings.flatMinimum, flat, variance);
   return { flat, variance, mask, model, unfitRows };
 }
 
 /**
- * flat = combined / model and its variance, or 1 and 0 (zeroFlat unless outsideData) where the
- * pixel is outsideData or below `minimum`. A function of one loop, so V8 compiles it once.
+ * flat = combined / model and its variance at pixels from .. to - 1, or 1 and 0 (zeroFlat unless
+ * outsideData) where the pixel is outsideData or below `minimum`. A function of one loop, so V8
+ * compiles it once.
  */
 function divideByModel(
   combined: Float32Array,
@@ -140,11 +160,13 @@ function divideByModel(
   minimum: number,
   flat: Float32Array,
   variance: Float32Array,
+  from: number,
+  to: number,
 ): void {
   const g = noise.gain;
   const rnAdu2 = (noise.readNoiseE / g) ** 2;
   const { biasVarianceAdu, count } = noise;
-  for (let i = 0; i < flat.length; i++) {
+  for (let i = from; i < to; i++) {
     const c = combined[i]!;
     const value = c / model[i]!;
     if (mask[i]! & MASK_BITS.outsideData || !(value >= minimum)) {

@@ -3,13 +3,16 @@ import { medianOfBuffer } from '../../kernels/robust.js';
 
 export const LEVEL_SAMPLES = 100000;
 
-/** Median of data[0], data[stride], ... with stride = max(1, floor(n / LEVEL_SAMPLES)); NaN skipped. */
-export function sampledMedian(data: Float32Array): number {
-  const stride = Math.max(1, Math.floor(data.length / LEVEL_SAMPLES));
-  const buf = new Float64Array(Math.ceil(data.length / stride));
+/**
+ * Median of the values at pixels 0, stride, 2 stride, ... of an image of n pixels, stride =
+ * max(1, floor(n / LEVEL_SAMPLES)); NaN skipped. `valueAt(p)` gives the value at pixel p.
+ */
+export function sampledMedian(n: number, valueAt: (p: number) => number): number {
+  const stride = Math.max(1, Math.floor(n / LEVEL_SAMPLES));
+  const buf = new Float64Array(Math.ceil(n / stride));
   let k = 0;
-  for (let i = 0; i < data.length; i += stride) {
-    const v = data[i]!;
+  for (let i = 0; i < n; i += stride) {
+    const v = valueAt(i);
     if (v === v) buf[k++] = v;
   }
   return medianOfBuffer(buf, k);

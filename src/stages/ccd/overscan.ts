@@ -73,6 +73,14 @@ export function trimLines(frame: RawFrame, det: Detector, level: OverscanLevel, 
   }
 }
 
+/** The trimmed value (overscan `level` subtracted, rounded to float32) at x, y of the data section, as trimLines gives it. */
+export function trimmedValue(frame: RawFrame, det: Detector, level: OverscanLevel, x: number, y: number): number {
+  const s = det.data;
+  const v = frame.data[(y + s.y0) * frame.width + s.x0 + x]!;
+  const l = level.along === 'x' ? level.values[s.x0 + x]! : level.along === 'y' ? level.values[y + s.y0]! : 0;
+  return Math.fround(v - l);
+}
+
 // One line each, in functions of one loop: the tests on the mask and the strip direction are
 // taken once per line, not per pixel. The level is subtracted and saturation marked in one pass.
 

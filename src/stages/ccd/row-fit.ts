@@ -3,10 +3,22 @@
  * the clipping rule of kernels/legendre-fit.ts (clip |r| > clipSigma sqrt(chi2 / n_kept), points
  * may return, stop when the kept set holds). Faster than one fitLegendre1D per row on full
  * frames: the design matrix and the normal matrix of a fully usable row are built once, and each
- * row or clipping round only subtracts the outer products of the points it leaves out.
+ * row or clipping round only subtracts the outer products of the points it leaves out. The
+ * model is taken at every x once per row, at the end: chi2 comes from the normal equations, and
+ * the clipping rounds test the residuals about a reference model (the last row's, scaled, or the
+ * first fit's), taking again at the current coefficients only the points that the distance to the
+ * reference could move across the limit, so every decision, and the result, is the plain rule's.
  */
 import { choleskyFactor, choleskySolve } from '../../kernels/cholesky.js';
 import { legendreBasis, normalise } from '../../kernels/legendre.js';
+import { addTerms, copyModel, countOnes, dot, keptSquares, lastTerms, maskRow, modelBound, modelFromResidual, modelTerms, proposeCandidates, proposeNear, sameCoefficients, scaledResiduals, type ProposalLists } from './row-fit-passes.js';
+
+/** chi2 from the normal equations below this fraction of sum y^2 is rounding: taken from the residuals instead. */
+const ROUNDING = 1e-9;
+/** The last row's model serves as the first reference when within this fraction of the clipping limit. */
+const NEAR_FRACTION = 0.25;
+/** Residuals within these fractions of the first limit are the candidates of later rounds (limits move by a few per cent). */
+const CANDIDATE_BAND = [0.7, 1.4] as const;
 
 export interface RowFitOptions {
   clipSigma: number;
@@ -35,6 +47,18 @@ export class RowLegendreFitter {
   private readonly trial: Uint8Array;
   /** Stands in for the basis functions past the order in passes of four. */
   private readonly zeros: Float64Array;
+  /** The points where `trial` differs from `kept` and the candidates near the limit, in order of x. */
+  private readonly lists: ProposalLists;
+  /** A pass's four coefficients, then the same for the mirrored x. */
+  private readonly terms = new Float64Array(8);
+  /** The coefficients at which `residual` was last taken at every x. */
+  private readonly reference: Float64Array;
+  /** Sum of squares of the kept values (chi2 = this - coeffs . rhs at the solution). */
+  private sumSquares = 0;
+  /** The last row's model (before rounding to float32) and coefficients, once a row has been fitted. */
+  private readonly previous: Float64Array;
+  private readonly previousCoeffs: Float64Array;
+  private previousHolds = false;
 
   /** Series of `order` over x = 0 .. width - 1 (u = normalise(x, 0, width - 1)). */
   constructor(readonly width: number, readonly order: number) {
@@ -58,6 +82,10 @@ export class RowLegendreFitter {
     this.maskedRow = new Float64Array(width);
     this.trial = new Uint8Array(width);
     this.zeros = new Float64Array(width);
+    this.reference = new Float64Array(nc);
+    this.previous = new Float64Array(width);
+    this.previousCoeffs = new Float64Array(nc);
+    this.lists = { changes: new Int32Array(width), candidates: new Int32Array(width), counts: new Int32Array(3) };
   }
 
   /**
@@ -65,28 +93,76 @@ export class RowLegendreFitter {
    * leaves `model` alone) when fewer than 2 (order + 1) points are usable.
    */
   fit(row: ArrayLike<number>, usable: Uint8Array, model: Float32Array, options: RowFitOptions): boolean {
-    const { width, nc, kept, residual, trial } = this;
+    const { width, nc, kept, residual, trial, coeffs, reference, lists } = this;
     const minKept = nc + 1;
     let count = countOnes(usable, width);
     if (count < 2 * nc) return false;
     this.startNormal(usable);
     kept.set(usable);
     // Unusable points enter the right-hand side as exact zeros (adding 0 changes no sum), which keeps its loop branch-free.
-    maskRow(row, usable, this.maskedRow, width);
+    this.sumSquares = maskRow(row, usable, this.maskedRow, width);
     this.startRhs();
+    // `residual` holds row - model(reference) (exact: `exact`), or undefined values (`holds` false).
+    let holds = false;
+    let exact = false;
+    let candidatesHold = false;
+    let lo = 0;
+    let hi = 0;
     // Each pass over x is a function or method of its own, so V8 compiles this one once.
     for (let iter = 0; ; iter++) {
       if (!this.solve()) return false;
-      const chi2 = this.residuals(row);
+      let chi2 = this.sumSquares - dot(coeffs, this.rhs, nc);
+      const trusted = chi2 > ROUNDING * this.sumSquares;
+      if (iter === 0 && trusted) holds = this.startFromPrevious(row, options.clipSigma * Math.sqrt(chi2 / count));
+      if (!trusted || !holds) {
+        chi2 = this.residuals(row);
+        reference.set(coeffs);
+        holds = true;
+        exact = true;
+        candidatesHold = false;
+      }
       if (iter >= options.maxIterations || !(chi2 > 0)) break;
       // The new kept set into `trial`, applied only when it holds enough points.
-      const next = proposeKept(usable, residual, options.clipSigma * Math.sqrt(chi2 / count), trial, width);
+      const limit = options.clipSigma * Math.sqrt(chi2 / count);
+      const bound = modelBound(coeffs, reference, nc, limit);
+      // Points far from the limit at which the candidates were listed cannot cross one near it.
+      let next: number;
+      if (candidatesHold && lo + bound <= limit && hi - bound > limit) {
+        next = proposeCandidates(row, residual, limit, bound, this.design, coeffs, nc, kept, trial, lists);
+      } else {
+        lo = CANDIDATE_BAND[0] * limit;
+        hi = CANDIDATE_BAND[1] * limit;
+        next = proposeNear(row, usable, residual, limit, bound, this.design, coeffs, nc, kept, trial, lists, lo, hi, width);
+        candidatesHold = true;
+      }
       if (next < minKept) break;
       const changed = this.applyTrial(row);
       count = next;
       if (!changed) break;
     }
-    modelFromResidual(row, residual, model, width);
+    // The model is row - residual, as at the last coefficients' residuals; taken again when those are other ones'.
+    if (exact && sameCoefficients(coeffs, reference, nc)) modelFromResidual(row, residual, this.previous, width);
+    else this.residuals(row, this.previous);
+    copyModel(this.previous, model, width);
+    this.previousCoeffs.set(coeffs);
+    this.previousHolds = true;
+    return true;
+  }
+
+  /**
+   * residual = row - s * (the last row's model), s = the ratio of the constant terms, when the
+   * bound on the model's distance from it (reference = s * its coefficients) is below
+   * NEAR_FRACTION of the clipping limit: neighbouring rows differ by a scale and noise, so most
+   * points are then decided from it. False when there is no last row or it is too far.
+   */
+  private startFromPrevious(row: ArrayLike<number>, limit: number): boolean {
+    const { nc, coeffs, reference, previousCoeffs } = this;
+    if (!this.previousHolds) return false;
+    const s = coeffs[0]! / previousCoeffs[0]!;
+    if (!(s > 0 && s < Infinity)) return false;
+    for (let k = 0; k < nc; k++) reference[k] = s * previousCoeffs[k]!;
+    if (!(modelBound(coeffs, reference, nc, limit) <= NEAR_FRACTION * limit)) return false;
+    scaledResiduals(row, this.previous, s, this.residual, this.width);
     return true;
   }
 
@@ -112,47 +188,46 @@ export class RowLegendreFitter {
     }
   }
 
-  /** kept = trial, the normal matrix and right-hand side updated point by point; false when nothing changed. */
+  /** kept = trial at the points listed in `changes` (in order of x), the normal matrix and right-hand side updated point by point; false when none changed. */
   private applyTrial(row: ArrayLike<number>): boolean {
-    const { width, normal, kept, trial } = this;
-    let changed = false;
-    for (let x = 0; x < width; x++) {
+    const { normal, kept, trial } = this;
+    const { changes, counts } = this.lists;
+    const n = counts[0]!;
+    for (let i = 0; i < n; i++) {
+      const x = changes[i]!;
       const keep = trial[x]!;
-      if (keep === kept[x]) continue;
-      changed = true;
       const sign = keep ? 1 : -1;
       this.accumulate(normal, x, sign);
       this.addRhs(row[x]!, x, sign);
+      this.sumSquares += sign * row[x]! * row[x]!;
       kept[x] = keep;
     }
-    return changed;
+    return n > 0;
   }
 
   /**
    * residual = row - model at every x (the model's terms added in order k = 0, 1, ...); returns
    * chi2 over the kept points. Four basis functions per pass over x, the last pass also taking
-   * the residual and chi2; basis functions past the order enter as zero columns with coefficient
-   * -0 (their terms are -0, which adding leaves every sum as it was, signed zeros included).
+   * the residual; basis functions past the order enter as zero columns with coefficient -0 (their
+   * terms are -0, which adding leaves every sum as it was, signed zeros included). x and its
+   * mirror width - 1 - x share one pass: u is negated exactly, so P_k there is (-1)^k P_k(u)
+   * bit for bit, and the mirror's terms are the same products with the odd coefficients negated.
+   * With `model`, the last pass writes row - residual there instead (and chi2 is not taken).
    */
-  private residuals(row: ArrayLike<number>): number {
-    const { width, nc, coeffs, residual, kept } = this;
+  private residuals(row: ArrayLike<number>, model?: Float64Array): number {
+    const { width, nc, coeffs, residual } = this;
     const c = (k: number): number => (k < nc ? coeffs[k]! : -0);
-    let chi2 = 0;
+    // The mirror's coefficient: negated for odd k within the order (the zero columns' -0 stays).
+    const m = (k: number): number => (k < nc && k % 2 === 1 ? -coeffs[k]! : c(k));
     for (let k = 0; k < nc; k += 4) {
       const [d0, d1, d2, d3] = this.columns(k);
-      const [c0, c1, c2, c3] = [c(k), c(k + 1), c(k + 2), c(k + 3)];
-      const first = k === 0;
-      if (k + 4 < nc) {
-        for (let x = 0; x < width; x++) residual[x] = (first ? 0 : residual[x]!) + d0[x]! * c0 + d1[x]! * c1 + d2[x]! * c2 + d3[x]! * c3;
-        continue;
-      }
-      for (let x = 0; x < width; x++) {
-        const r = row[x]! - ((first ? 0 : residual[x]!) + d0[x]! * c0 + d1[x]! * c1 + d2[x]! * c2 + d3[x]! * c3);
-        residual[x] = r;
-        if (kept[x]) chi2 += r * r;
-      }
+      const terms = [c(k), c(k + 1), c(k + 2), c(k + 3), m(k), m(k + 1), m(k + 2), m(k + 3)] as const;
+      this.terms.set(terms);
+      if (k + 4 < nc) addTerms(d0, d1, d2, d3, this.terms, residual, k === 0, width);
+      else if (model) modelTerms(row, d0, d1, d2, d3, this.terms, residual, k === 0, model, width);
+      else lastTerms(row, d0, d1, d2, d3, this.terms, residual, k === 0, width);
     }
-    return chi2;
+    return model ? NaN : keptSquares(residual, this.kept, width);
   }
 
   /** Basis functions k .. k + 3 by x (zero columns past the order). */
@@ -201,30 +276,4 @@ export class RowLegendreFitter {
     choleskySolve(work, nc, this.coeffs);
     return true;
   }
-}
-
-function countOnes(flags: Uint8Array, width: number): number {
-  let count = 0;
-  for (let x = 0; x < width; x++) count += flags[x]!;
-  return count;
-}
-
-/** masked = row where usable, exact 0 elsewhere. */
-function maskRow(row: ArrayLike<number>, usable: Uint8Array, masked: Float64Array, width: number): void {
-  for (let x = 0; x < width; x++) masked[x] = usable[x] ? row[x]! : 0;
-}
-
-/** trial = usable points with |residual| <= limit; returns their number. */
-function proposeKept(usable: Uint8Array, residual: Float64Array, limit: number, trial: Uint8Array, width: number): number {
-  let next = 0;
-  for (let x = 0; x < width; x++) {
-    const keep = usable[x] && Math.abs(residual[x]!) <= limit ? 1 : 0;
-    trial[x] = keep;
-    next += keep;
-  }
-  return next;
-}
-
-function modelFromResidual(row: ArrayLike<number>, residual: Float64Array, model: Float32Array, width: number): void {
-  for (let x = 0; x < width; x++) model[x] = row[x]! - residual[x]!;
 }

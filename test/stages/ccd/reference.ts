@@ -17,6 +17,8 @@ export interface CcdReference {
     width: number; height: number; count: number; gain: number; readNoiseE: number; order: number;
     frames: number[]; levelAdu: number; combined: number[]; kept: number[]; normalised: number[];
   };
+  /** Rows of an odd width (a centre pixel of its own) with outliers; clipping rounds taken per row. */
+  flatOdd: { width: number; height: number; order: number; combined: number[]; model: number[]; rounds: number[] };
   science: {
     width: number; height: number; exptimes: number[]; gain: number; readNoiseE: number; biasVarianceAdu: number;
     crSigma: number; crRelativeScatter: number; flat: number[]; flatVariance: number[]; sci: number[]; var: number[];
