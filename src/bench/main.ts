@@ -7,6 +7,7 @@
 import { readdirSync, rmSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { restartWithOneCoreFlag, wantsOneCoreRestart } from '../cli/one-core.js';
 import type { RunEvent } from '../run/events.js';
 import { deepFreeze, loadManifest, type ResolvedRun } from '../run/manifest/resolve.js';
 import { reduceRun } from '../run/runner.js';
@@ -136,4 +137,6 @@ async function main(): Promise<void> {
   out(formatBenchTable(rows));
 }
 
-await main();
+// Pinned to one core (the goal's case), run under the flag the CLI's launcher would use there.
+if (wantsOneCoreRestart()) process.exitCode = await restartWithOneCoreFlag(fileURLToPath(import.meta.url), process.argv.slice(2));
+else await main();
