@@ -3,8 +3,7 @@
  * ones'-complement sum of big-endian words, DATASUM as its decimal string, CHECKSUM as the
  * 16-character ASCII encoding of the complement that makes the whole HDU sum to -0.
  */
-
-const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
+import { LITTLE_ENDIAN } from './endian.js';
 
 /** Ones'-complement sum of bytes[start..end) as big-endian 32-bit words, added to `initial`. A partial last word is zero-padded. */
 export function onesComplementSum(bytes: Uint8Array, start: number, end: number, initial = 0): number {

@@ -8,8 +8,7 @@ import { InputError } from '../errors.js';
 import { hduAt } from './image.js';
 import type { FitsFile } from './types.js';
 import { decodeUnsigned16 } from './unsigned16.js';
-
-const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
+import { LITTLE_ENDIAN } from './endian.js';
 
 interface Stored<T> {
   width: number;

@@ -4,8 +4,7 @@
  */
 
 import { takeUint16 } from '../kernels/frame-pool.js';
-
-const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
+import { LITTLE_ENDIAN } from './endian.js';
 
 /**
  * The n values stored at bytes[offset ..), in an array of their own (a dead frame's when one is

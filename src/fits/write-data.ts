@@ -5,8 +5,7 @@
  */
 import { InputError } from '../errors.js';
 import type { ImageHduSpec, TableHduSpec } from './write-types.js';
-
-const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
+import { LITTLE_ENDIAN } from './endian.js';
 
 const INT_RANGE: Record<number, [number, number]> = { 8: [0, 255], 16: [-32768, 32767], 32: [-2147483648, 2147483647] };
 
