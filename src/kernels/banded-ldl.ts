@@ -69,12 +69,12 @@ function backwardSweep(a: Float64Array, n: number, p: number, b: Float64Array): 
   }
 }
 
-/** Fill `z` (same band storage) with the entries of the inverse inside the band, from the factor `a`. */
 /** Z(k, j) for |k - j| <= p from the band storage (symmetric); a module-level function, not a closure made at each call (a new closure is a new call target to V8). */
 function bandEntry(z: Float64Array, w: number, k: number, j: number): number {
   return k >= j ? z[k * w + (k - j)]! : z[j * w + (j - k)]!;
 }
 
+/** Fill `z` (same band storage) with the entries of the inverse inside the band, from the factor `a`. */
 export function bandedInverseInBand(a: Float64Array, n: number, p: number, z: Float64Array): void {
   const w = p + 1;
   for (let i = n - 1; i >= 0; i--) {

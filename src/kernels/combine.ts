@@ -97,7 +97,9 @@ function keepsAllAboutMedian(s0: Float32Array, s1: Float32Array, s2: Float32Arra
   return low >= centre - nSigma * scale && high <= centre + nSigma * scale;
 }
 
-// Minimum, maximum and median by arithmetic, exact for float32 values in the window (see smallStack).
+// Minimum, maximum and median by arithmetic: in the window every difference t of two values is
+// exact, so x + (t - |t|) / 2 = min(x, x + t) and x + (t + |t|) / 2 = max(x, x + t) exactly (up to
+// the sign of a zero, which no decision of the clipping depends on).
 function min2(x: number, y: number): number {
   const t = y - x;
   return x + 0.5 * (t - Math.abs(t));
@@ -149,26 +151,13 @@ function smallStack(stack: readonly Float32Array[], options: StackClipOptions, n
       let low: number;
       let high: number;
       if (inWindow(a) & inWindow(b) & inWindow(c) & (n > 3 ? inWindow(d) & inWindow(e) : 1)) {
-        // Minimum and maximum by arithmetic, without the unpredictable branches of Math.min and
-        // Math.max: in the window every difference t of two values is exact, so
-        // m + (t - |t|) / 2 = min(m, m + t) and m + (t + |t|) / 2 = max(m, m + t) exactly (up to
-        // the sign of a zero, which no decision of keepsAll depends on).
-        let t = b - a;
-        low = a + 0.5 * (t - Math.abs(t));
-        high = a + 0.5 * (t + Math.abs(t));
-        t = c - low;
-        low += 0.5 * (t - Math.abs(t));
-        t = c - high;
-        high += 0.5 * (t + Math.abs(t));
+        // Minimum and maximum by arithmetic (min2, max2), without the unpredictable branches of
+        // Math.min and Math.max.
+        low = min2(min2(a, b), c);
+        high = max2(max2(a, b), c);
         if (n > 3) {
-          t = d - low;
-          low += 0.5 * (t - Math.abs(t));
-          t = d - high;
-          high += 0.5 * (t + Math.abs(t));
-          t = e - low;
-          low += 0.5 * (t - Math.abs(t));
-          t = e - high;
-          high += 0.5 * (t + Math.abs(t));
+          low = min2(min2(low, d), e);
+          high = max2(max2(high, d), e);
         }
       } else {
         low = Math.min(a, b, c, d, e);

@@ -13,12 +13,12 @@ import { combineExposures } from './combine-exposures.js';
 import { checkSameDetector, resolveDetector, type ReferenceFrame } from './detector.js';
 import { CLEAR_AXIS_RATIO, dispersionAxisFromArc } from './dispersion-axis.js';
 import { findBadColumns } from './bad-columns.js';
-import { calibrateExposure, type ExposureCalibration } from './exposure.js';
-import { calibrateRawExposure } from './raw-exposure.js';
+import type { ExposureCalibration } from './exposure.js';
+import { exposureFromRaw } from './raw-exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { combineFlats, normaliseFlat } from './flat.js';
 import { flatsFromRaw } from './flat-source.js';
-import { overscanLevel, trimWithLevel } from './overscan.js';
+import { overscanLevel } from './overscan.js';
 import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 export interface CalibrationFrames {
@@ -121,14 +121,9 @@ export function buildCalibration(frames: CalibrationFrames, settings: CcdSetting
     masterBias, biasVarianceAdu: bias.varianceAdu, masterFlat, flatVariance, flatMask,
   };
   const arcInfos = frames.arc.map((f) => exposureInfo(f, false));
-  // The arcs go from raw to calibrated in one pass when nothing is reoriented (the same values as
-  // trimming and calibrating), into dead buffers while there are some.
-  const n = width * height;
-  const arcExposures = frames.arc.map((f, i) => {
-    const level = i === 0 ? arcLevel : overscanLevel(f, det, settings.overscanOrder);
-    if (same) return calibrateRawExposure(f, det, level, exposureCal, { sci: spareData.pop() ?? new Float32Array(n), var: spareData.pop() ?? new Float32Array(n), mask: spareMask.pop() ?? new Uint16Array(n) });
-    return calibrateExposure(trimWithLevel(f, det, level, true, { data: spareData.pop(), mask: spareMask.pop() }), exposureCal, spareData.pop());
-  });
+  // The arcs from raw to calibrated, into dead buffers while there are some.
+  const spares = { float32: () => spareData.pop(), uint16: () => spareMask.pop() };
+  const arcExposures = frames.arc.map((f, i) => exposureFromRaw(f, det, i === 0 ? arcLevel : overscanLevel(f, det, settings.overscanOrder), exposureCal, spares));
   const arcCombined = combineExposures(arcExposures, arcInfos.map((e) => e.exptimeS), exposureCal, settings);
   if (arcCombined.hits > 0) log.info('arc-cosmic-rays', `${arcCombined.hits} cosmic-ray pixel(s) rejected in the arc combination`, { actual: arcCombined.hits });
   const arc: CalibratedFrame = {

@@ -11,11 +11,11 @@ import { MASK_BITS, type CalibratedFrame, type RawFrame, type StageResult } from
 import type { CcdCalibration } from './calibration.js';
 import { combineExposures, MAX_EXPOSURES } from './combine-exposures.js';
 import { checkSameDetector, resolveDetector } from './detector.js';
-import { calibrateExposure, type ExposureCalibration } from './exposure.js';
+import type { ExposureCalibration } from './exposure.js';
 import { exposureInfo } from './exposure-info.js';
 import { laplacianClean } from './laplacian-clean.js';
-import { overscanLevel, trimFrame } from './overscan.js';
-import { calibrateRawExposure } from './raw-exposure.js';
+import { overscanLevel } from './overscan.js';
+import { exposureFromRaw } from './raw-exposure.js';
 import { checkCcdSettings, type CcdSettings } from './settings.js';
 
 /** Mask bits that keep a pixel out of the Laplacian detection and of the replacement medians. */
@@ -55,14 +55,10 @@ export function calibrateScience(science: RawFrame[], cal: Omit<CcdCalibration, 
   });
   const det = cal.reference.detector;
   const exposureCal: ExposureCalibration = cal;
-  // Each exposure in pooled dead frames where there are any (every value is overwritten): in the
-  // usual orientation straight from the raw pixels, else through a trimmed frame that is reoriented.
-  const n = (det.data.x1 - det.data.x0) * (det.data.y1 - det.data.y0);
-  const same = !cal.orientation.transpose && !cal.orientation.flipX;
-  const exposures = science.map((f) => {
-    if (same) return calibrateRawExposure(f, det, overscanLevel(f, det, settings.overscanOrder), exposureCal, { sci: takeFloat32(n), var: takeFloat32(n), mask: takeUint16(n) });
-    return calibrateExposure(trimFrame(f, det, settings.overscanOrder, true, { data: takeFloat32(n), mask: takeUint16(n) }), exposureCal);
-  });
+  // Each exposure in pooled dead frames where there are any (every value is overwritten).
+  const n = cal.width * cal.height;
+  const pooled = { float32: () => takeFloat32(n), uint16: () => takeUint16(n) };
+  const exposures = science.map((f) => exposureFromRaw(f, det, overscanLevel(f, det, settings.overscanOrder), exposureCal, pooled));
   const combined = combineExposures(exposures, infos.map((e) => e.exptimeS), exposureCal, settings);
   const frame: CalibratedFrame = {
     width: cal.width, height: cal.height, sci: combined.sci, var: combined.var, mask: combined.mask,

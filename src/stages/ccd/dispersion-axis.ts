@@ -5,7 +5,7 @@
  */
 import type { RawFrame } from '../../products/frame.js';
 import type { Detector } from './detector.js';
-import { trimLines, type OverscanLevel } from './overscan.js';
+import { minusBias, trimLines, type OverscanLevel } from './overscan.js';
 
 export interface AxisEvidence {
   axis: 'x' | 'y';
@@ -24,14 +24,13 @@ export const CLEAR_AXIS_RATIO = 1.5;
 export function dispersionAxisFromArc(arc: RawFrame, det: Detector, level: OverscanLevel, bias: Float32Array, width: number, height: number): AxisEvidence {
   let dx = 0;
   let dy = 0;
-  const trimmed = new Float32Array(width);
   let line = new Float32Array(width);
   let below = new Float32Array(width);
-  trimLines(arc, det, level, 0, 1, trimmed, null);
-  minusBiasLine(trimmed, bias, 0, line);
+  trimLines(arc, det, level, 0, 1, line, null);
+  minusBias(line, bias, 0, width);
   for (let y = 0; y < height - 1; y++) {
-    trimLines(arc, det, level, y + 1, y + 2, trimmed, null);
-    minusBiasLine(trimmed, bias, (y + 1) * width, below);
+    trimLines(arc, det, level, y + 1, y + 2, below, null);
+    minusBias(below, bias, (y + 1) * width, width);
     for (let x = 0; x < width - 1; x++) {
       const v = line[x]!;
       dx += Math.abs(line[x + 1]! - v);
@@ -41,9 +40,4 @@ export function dispersionAxisFromArc(arc: RawFrame, det: Detector, level: Overs
   }
   const ratio = dy > 0 ? dx / dy : Infinity;
   return { axis: ratio >= 1 ? 'x' : 'y', ratio };
-}
-
-/** out = trimmed - bias[from ..] (rounded to float32). */
-function minusBiasLine(trimmed: Float32Array, bias: Float32Array, from: number, out: Float32Array): void {
-  for (let x = 0; x < out.length; x++) out[x] = trimmed[x]! - bias[from + x]!;
 }

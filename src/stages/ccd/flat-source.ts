@@ -5,7 +5,7 @@
  */
 import type { RawFrame } from '../../products/frame.js';
 import type { Detector } from './detector.js';
-import { trimLines, trimmedValue, type OverscanLevel } from './overscan.js';
+import { minusBias, trimLines, trimmedValue, type OverscanLevel } from './overscan.js';
 
 export interface FlatSource {
   width: number;
@@ -49,9 +49,4 @@ export function flatsFromRaw(frames: RawFrame[], det: Detector, levels: Overscan
       return one[0]!;
     },
   };
-}
-
-/** out[0 .. count) -= bias[from ..) (rounded to float32). */
-function minusBias(out: Float32Array, bias: Float32Array, from: number, count: number): void {
-  for (let j = 0; j < count; j++) out[j] = out[j]! - bias[from + j]!;
 }

@@ -73,6 +73,11 @@ export function trimLines(frame: RawFrame, det: Detector, level: OverscanLevel, 
   }
 }
 
+/** Trimmed lines in `out` [0, count) taken off the master bias from pixel `from` on (rounded to float32, as a bias-subtracted frame holds them). */
+export function minusBias(out: Float32Array, bias: Float32Array, from: number, count: number): void {
+  for (let j = 0; j < count; j++) out[j] = out[j]! - bias[from + j]!;
+}
+
 /** The trimmed value (overscan `level` subtracted, rounded to float32) at x, y of the data section, as trimLines gives it. */
 export function trimmedValue(frame: RawFrame, det: Detector, level: OverscanLevel, x: number, y: number): number {
   const s = det.data;

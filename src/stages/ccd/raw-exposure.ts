@@ -6,8 +6,27 @@
  */
 import { MASK_BITS, type RawFrame } from '../../products/frame.js';
 import type { Detector } from './detector.js';
-import type { CalibratedExposure, ExposureCalibration } from './exposure.js';
-import type { OverscanLevel } from './overscan.js';
+import { calibrateExposure, type CalibratedExposure, type ExposureCalibration } from './exposure.js';
+import { trimWithLevel, type OverscanLevel } from './overscan.js';
+
+/** Where an exposure's arrays come from: dead arrays of the frame's size (every value is overwritten), or undefined for new ones. */
+export interface ExposureBuffers {
+  float32: () => Float32Array | undefined;
+  uint16: () => Uint16Array | undefined;
+}
+
+/**
+ * `frame` (overscan `level`) from raw ADU to a calibrated exposure: in one pass in the usual
+ * orientation, else trimmed, then reoriented and calibrated. The same values either way.
+ */
+export function exposureFromRaw(frame: RawFrame, det: Detector, level: OverscanLevel, cal: ExposureCalibration, buffers: ExposureBuffers): CalibratedExposure {
+  const n = cal.width * cal.height;
+  if (!cal.orientation.transpose && !cal.orientation.flipX) {
+    return calibrateRawExposure(frame, det, level, cal, { sci: buffers.float32() ?? new Float32Array(n), var: buffers.float32() ?? new Float32Array(n), mask: buffers.uint16() ?? new Uint16Array(n) });
+  }
+  // Reoriented, the trimmed data array takes the variance (see calibrateExposure).
+  return calibrateExposure(trimWithLevel(frame, det, level, true, { data: buffers.float32(), mask: buffers.uint16() }), cal);
+}
 
 /** The calibration's constants and arrays, and the exposure's arrays being written. */
 interface LineInput {

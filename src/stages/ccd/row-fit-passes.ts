@@ -142,9 +142,7 @@ export function proposeNear(
   let outside = 0;
   for (let x = 0; x < width; x++) {
     const r = Math.abs(residual[x]!);
-    let keep = r + bound <= limit ? 1 : 0;
-    if (!keep && r - bound <= limit) keep = Math.abs(row[x]! - modelAt(design, coeffs, x, nc)) <= limit ? 1 : 0;
-    keep &= usable[x]!;
+    const keep = keepsAt(row, r, x, limit, bound, design, coeffs, nc) & usable[x]!;
     trial[x] = keep;
     next += keep;
     if (keep !== kept[x]) changes[n++] = x;
@@ -156,6 +154,16 @@ export function proposeNear(
   counts[1] = c;
   counts[2] = outside;
   return next;
+}
+
+/**
+ * 1 when point x is within the limit at the current coefficients, from r = |residual about the
+ * reference|: decided by r alone when farther than the bound from the limit, else taken again.
+ */
+function keepsAt(row: ArrayLike<number>, r: number, x: number, limit: number, bound: number, design: Float64Array, coeffs: Float64Array, nc: number): number {
+  if (r + bound <= limit) return 1;
+  if (!(r - bound <= limit)) return 0;
+  return Math.abs(row[x]! - modelAt(design, coeffs, x, nc)) <= limit ? 1 : 0;
 }
 
 function modelAt(design: Float64Array, coeffs: Float64Array, x: number, nc: number): number {
@@ -176,8 +184,7 @@ export function proposeCandidates(row: ArrayLike<number>, residual: Float64Array
   for (let i = 0; i < counts[1]!; i++) {
     const x = candidates[i]!;
     const r = Math.abs(residual[x]!);
-    let keep = r + bound <= limit ? 1 : 0;
-    if (!keep && r - bound <= limit) keep = Math.abs(row[x]! - modelAt(design, coeffs, x, nc)) <= limit ? 1 : 0;
+    const keep = keepsAt(row, r, x, limit, bound, design, coeffs, nc);
     trial[x] = keep;
     next += keep;
     if (keep !== kept[x]) changes[n++] = x;

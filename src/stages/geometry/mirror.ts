@@ -16,8 +16,6 @@ export interface PvSamples {
   kernelRows: number;
   /** Scratch of kernelAt(), one per point: the weights of its first pass, reused by its second. */
   weights: Float64Array;
-  /** Scratch of forEachMirror: one equivalent kernel at a time. */
-  kernel: Kernel;
 }
 
 /** An equivalent kernel: the curve at a row is sum_j l[j] v[k[j]] over `size` points, with `variance`. */
@@ -37,7 +35,7 @@ export function pvSamples(y: Float64Array, v: Float64Array, e: Float64Array): Pv
   const gaps = new Float64Array(Math.max(0, y.length - 1));
   for (let k = 1; k < y.length; k++) gaps[k - 1] = y[k]! - y[k - 1]!;
   const spacing = gaps.length > 0 ? median(gaps) : 1;
-  return { y, v, e, kernelRows: KERNEL_SPACINGS * (spacing > 0 ? spacing : 1), weights: new Float64Array(y.length), kernel: newKernel(y.length) };
+  return { y, v, e, kernelRows: KERNEL_SPACINGS * (spacing > 0 ? spacing : 1), weights: new Float64Array(y.length) };
 }
 
 export interface FoldChiSquare {
@@ -111,25 +109,10 @@ function lowerFrom(y: Float64Array, x: number, from: number): number {
 }
 
 /**
- * For every active point i with |y_i - c0| <= half whose mirror row 2c - y_i lies among the
- * points: visit(i, value, variance) of the curve there (its kernel, without point i).
- */
-function forEachMirror(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, visit: (i: number, mirrorV: number, mirrorVar: number) => void): void {
-  const { y, kernel } = p;
-  let lo = lowerIndex(y, 2 * c - y[0]! - p.kernelRows);
-  for (let i = 0; i < y.length; i++) {
-    if (active[i] === 0 || Math.abs(y[i]! - c0) > half) continue;
-    const m = 2 * c - y[i]!;
-    lo = lowerFrom(y, m - p.kernelRows, lo);
-    const size = kernelAt(p, active, i, m, lo, kernel, 0);
-    if (size >= 0) visit(i, kernelValue(kernel, 0, size, p.v), kernel.variance);
-  }
-}
-
-/**
- * The mirrors' kernels at one trial centre, kept: for each compared point (as forEachMirror visits
- * them) its kernel's entries and variance. A bootstrap draw changes only the velocities, so the
- * fold of a draw at a centre met before needs only the sums l v (foldChiSquareWith).
+ * The mirrors' kernels at trial centre c: for every active point i with |y_i - c0| <= half whose
+ * mirror row 2c - y_i lies among the points, the equivalent kernel of the curve there (without
+ * point i): its entries and variance. They do not depend on the velocities, so a bootstrap keeps
+ * them for every draw that tries the centre again and needs only the sums l v (foldChiSquareWith).
  */
 export interface MirrorKernels {
   count: number;
@@ -179,20 +162,7 @@ function grown(kernel: Kernel, least: number): Kernel {
 
 /** Chi-square of the fold about row c, comparing the active points with |y - c0| <= half. */
 export function foldChiSquare(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, fixedVSys: number | undefined): FoldChiSquare {
-  const { v, e } = p;
-  let sw = 0;
-  let swx = 0;
-  let swxx = 0;
-  let n = 0;
-  forEachMirror(p, active, c, c0, half, (i, mirrorV, mirrorVar) => {
-    const w = 1 / (e[i]! ** 2 + mirrorVar);
-    const x = v[i]! + mirrorV;
-    sw += w;
-    swx += w * x;
-    swxx += w * x * x;
-    n++;
-  });
-  return foldResult(sw, swx, swxx, n, fixedVSys);
+  return foldChiSquareWith(p, mirrorKernels(p, active, c, c0, half), fixedVSys);
 }
 
 /** foldChiSquare at the centre of `kernels` (made with the same points and active set), for the velocities of p. */
@@ -204,7 +174,6 @@ export function foldChiSquareWith(p: PvSamples, kernels: MirrorKernels, fixedVSy
   let swxx = 0;
   for (let j = 0; j < kernels.count; j++) {
     const i = point[j]!;
-    // The same operations as foldChiSquare's visit, in the same order.
     const w = 1 / (e[i]! ** 2 + variance[j]!);
     const x = v[i]! + kernelValue(entries, start[j]!, start[j + 1]!, v);
     sw += w;
@@ -232,9 +201,11 @@ function foldResult(sw: number, swx: number, swxx: number, n: number, fixedVSys:
 export function dropAsymmetricPoints(p: PvSamples, active: Uint8Array, c: number, c0: number, half: number, vSys: number, limit: number): number {
   const { y, v, e } = p;
   const z = new Float64Array(y.length).fill(NaN);
-  forEachMirror(p, active, c, c0, half, (i, mirrorV, mirrorVar) => {
-    z[i] = (v[i]! + mirrorV - 2 * vSys) / Math.sqrt(e[i]! ** 2 + mirrorVar);
-  });
+  const { count, point, start, entries, variance } = mirrorKernels(p, active, c, c0, half);
+  for (let j = 0; j < count; j++) {
+    const i = point[j]!;
+    z[i] = (v[i]! + kernelValue(entries, start[j]!, start[j + 1]!, v) - 2 * vSys) / Math.sqrt(e[i]! ** 2 + variance[j]!);
+  }
   const cut = limit * Math.max(1, madSigma(z));
   let dropped = 0;
   for (let i = 0; i < y.length; i++) {

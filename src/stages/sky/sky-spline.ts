@@ -71,8 +71,7 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
   // a round that drops nothing has converged.
   const limit2 = clipSigma * clipSigma;
   for (let round = 0; round < iterations && fit !== null; round++) {
-    const sums = copySums(fit.sums);
-    sums.dropped = 0;
+    const sums = refitStart(fit.sums);
     for (const y of rows) if (y % rowStep === 0) clipRow(input, spline, fit.pieces, slit[y]!, y, limit2, sums);
     if (sums.dropped === 0) break;
     fit = solve(spline, slit, sums);
@@ -85,8 +84,7 @@ export function fitSkySpline(input: SkyFitInput, order: number, knotSpacingPx: n
  * clears them in its `use`), slit factor held: the refit after masking a few pixels.
  */
 export function refitWithout(fit: SkySpline, input: SkyFitInput, rows: Uint8Array, marks: Uint8Array, mark: number): SkySpline | null {
-  const sums = copySums(fit.sums);
-  sums.dropped = 0;
+  const sums = refitStart(fit.sums);
   for (let y = 0; y < rows.length; y++) if (rows[y]) removeMarked(input, fit.spline, fit.slit[y]!, y, marks, mark, sums);
   return solve(fit.spline, fit.slit, sums);
 }
@@ -130,8 +128,9 @@ function solve(spline: UniformCubicBSpline, slit: Float64Array, sums: NormalSums
   return { spline, coeffs: rhs, covariance, slit, used: sums.used, dropped: sums.dropped, sums, pieces: valuePieces(rhs, spline.nIntervals) };
 }
 
-function copySums(s: NormalSums): NormalSums {
-  return { normal: s.normal.slice(), rhs: s.rhs.slice(), used: s.used, dropped: s.dropped };
+/** A copy of a fit's sums to take pixels out of (the fit keeps its own); nothing dropped yet. */
+function refitStart(s: NormalSums): NormalSums {
+  return { normal: s.normal.slice(), rhs: s.rhs.slice(), used: s.used, dropped: 0 };
 }
 
 /**
