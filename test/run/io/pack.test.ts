@@ -3,7 +3,7 @@ import { Header } from '../../../src/fits/header.js';
 import { pack, packToBytes, unpack, unpackFromBytes } from '../../../src/run/io/pack.js';
 
 describe('pack', () => {
-  const header = new Header().set('OBJECT', 'NGC 1', 'name');
+  const header = new Header().set('OBJECT', 'Halden Spiral', 'name');
   const plain = { a: 1, list: [1, 2, null, 'x'], data: new Float32Array([1, 2]) };
   const value = { n: 3, s: 'x', none: null, gone: undefined, plain, rows: [plain, { header }, 7, null], header, sparse: [, header] };
 

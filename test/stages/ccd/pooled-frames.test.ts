@@ -38,7 +38,8 @@ describe('CCD stages on pooled dead frames', () => {
   it('calibrateScience overwrites dirty pooled frames in full: the same bits as on new arrays, the answer of the noise-free frames', () => {
     const cal = buildCalibration(calFrames(), settings).product;
     emptyPool();
-    // A hit in one of three equal exposures: 200 ADU at gain 2 through a flat of 1, 3 x 400 e-.
+    // A hit in one of three equal exposures: 200 ADU at gain 2 through a flat of 1, 3 x 400 e- (the
+    // CCD equation, Howell, Handbook of CCD Astronomy, ch. 4).
     const science = [0, 1, 2].map((k) => syntheticFrame(`raw/s${k}.fits`, (x, y) => (k === 1 && x === 20 && y === 10 ? 3000 : 200), size));
     const before = science.map((f) => f.data.slice());
     const fresh = calibrateScience(science, cal, settings).product;
