@@ -1,15 +1,18 @@
 /**
- * Node on one core. V8 optimises hot functions on a background thread; confined to one core,
- * that thread runs only when the scheduler takes the core from the main thread, so the hot loops
- * of a reduction wait longer in slower code. Measured on the full-size benchmark run pinned with
- * `taskset -c 0` (README, Speed): --no-concurrent-recompilation saves 0.4-0.7 s of ~7 s. With a
- * second core free the background thread is a gain instead (unpinned: 6.0-7.3 s with it, 6.6-7.6 s
- * without), so the launchers restart Node with the flag only when the process may use one core.
+ * Node on one core. V8 optimises hot functions and collects garbage on background threads;
+ * confined to one core, those run only when the scheduler takes the core from the main thread,
+ * so the hot loops of a reduction wait longer in slower code and the collector's work is split
+ * and handed over. Measured on the full-size benchmark run pinned with `taskset -c 0` (README,
+ * Speed): --no-concurrent-recompilation saves 0.4-0.7 s of ~7 s, and --single-threaded (which
+ * includes it and also keeps the garbage collector on the main thread) about 0.15 s more. With a
+ * second core free the background threads are a gain instead (unpinned: 6.0-7.3 s with them,
+ * 6.6-7.6 s without), so the launchers restart Node with the flag only when the process may use
+ * one core. Worker threads (`--jobs`) still work under it.
  */
 import { spawn } from 'node:child_process';
 import { availableParallelism, constants } from 'node:os';
 
-export const ONE_CORE_FLAG = '--no-concurrent-recompilation';
+export const ONE_CORE_FLAG = '--single-threaded';
 
 /** Whether to start again with ONE_CORE_FLAG: one usable core (the affinity mask counts) and not done yet. */
 export function wantsOneCoreRestart(cores: number = availableParallelism(), execArgv: readonly string[] = process.execArgv): boolean {
