@@ -4,7 +4,7 @@
  * so the hot loops of a reduction wait longer in slower code and the collector's work is split
  * and handed over. Measured on the full-size benchmark run pinned with `taskset -c 0` (README,
  * Speed): --no-concurrent-recompilation saves 0.4-0.7 s of ~7 s, and --single-threaded (which
- * includes it and also keeps the garbage collector on the main thread) about 0.15 s more. With a
+ * includes it and also keeps the garbage collector on the main thread) 0.15-0.24 s more. With a
  * second core free the background threads are a gain instead (unpinned: 6.0-7.3 s with them,
  * 6.6-7.6 s without), so the launchers restart Node with the flag only when the process may use
  * one core. Worker threads (`--jobs`) still work under it.
