@@ -15,7 +15,6 @@ import type { SkySettings } from './settings.js';
 import { maskCoherentEmission } from './emission-mask.js';
 import { evaluateRow, fitSkySpline, refitWithout, subtractModel, subtractModelWithVariance, type SkySpline } from './sky-spline.js';
 
-/** Mask bits that make a pixel unusable for the sky fit and the profiles. */
 /** Least emission score of a galaxy row: about one line with a 5-sigma peak three pixels wide (common practice for a detection floor). */
 const EMISSION_FLOOR = 3;
 /** For unit normal z: E[max(0, z - 3)] and E[max(0, z - 3)^2] (from the normal density and tail at 3). */

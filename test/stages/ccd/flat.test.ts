@@ -21,7 +21,8 @@ describe('master flat', () => {
   });
 
   it('takes the flats from raw frames (trimmed and taken off the bias a block of lines at a time) with the same result', () => {
-    // The fixture's flats one column in from the raw edge, no overscan, a zero bias.
+    // The fixture's flats one column in from the raw edge, no overscan, a zero bias; compared with
+    // the fixture's astropy sigma_clip combination (fixtures/ccd/make_ccd_fixtures.py, Debian python3-astropy).
     const rawWidth = f.width + 3;
     const raw: RawFrame[] = frames(f.frames, f.count).map((image, i) => {
       const data = new Float32Array(rawWidth * f.height).fill(-1);
